@@ -1,0 +1,4 @@
+//! Placeholder: being written.
+
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct StudentT;

@@ -1,0 +1,7 @@
+//! Tern: plan and decide hypothesis tests with both error rates under control.
+//!
+//! The crate has two worlds. [`engine`] is pure Rust: numbers and strings in,
+//! plain data out, no I/O and no web types, so `cargo test` exercises all of it
+//! natively. The web layer (compiled only for `wasm32`) is a thin shell over it.
+
+pub mod engine;
