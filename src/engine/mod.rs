@@ -6,3 +6,14 @@
 //! returns a `Result` instead of panicking.
 
 pub mod dist;
+pub mod root;
+pub mod threshold;
+pub mod design;
+pub mod conventional;
+pub mod evaluate;
+pub mod model;
+pub mod sample_size;
+pub mod decision;
+pub mod curves;
+pub mod inverse;
+pub mod request;

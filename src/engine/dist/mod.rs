@@ -11,7 +11,9 @@ mod chi_square;
 mod noncentral_t;
 mod normal;
 mod poisson;
+mod special;
 mod student_t;
+mod t_integral;
 
 pub use binomial::Binomial;
 pub use chi_square::ScaledChiSquare;

@@ -46,17 +46,17 @@ impl Normal {
 }
 
 /// Standard normal lower tail Φ(z), accurate for very negative z.
-pub fn std_cdf(z: f64) -> f64 {
+pub(crate) fn std_cdf(z: f64) -> f64 {
     0.5 * erfc(-z * FRAC_1_SQRT_2)
 }
 
 /// Standard normal upper tail 1 − Φ(z), accurate for very positive z.
-pub fn std_sf(z: f64) -> f64 {
+pub(crate) fn std_sf(z: f64) -> f64 {
     0.5 * erfc(z * FRAC_1_SQRT_2)
 }
 
 /// Standard normal density φ(z).
-pub fn std_pdf(z: f64) -> f64 {
+pub(crate) fn std_pdf(z: f64) -> f64 {
     (-0.5 * z * z - LN_SQRT_2PI).exp()
 }
 

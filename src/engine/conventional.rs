@@ -1,0 +1,85 @@
+//! The conventional test a reviewer expects: the critical value at level
+//! α_max and its power at θ1, for the same statistic and direction.
+
+use super::dist::{Continuous, Discrete};
+use super::root::{Tolerance, brent, expand};
+use super::threshold::{
+    Alternative, ContinuousCut, DiscreteCut, Errors, ThresholdError, continuous_errors, discrete_errors,
+};
+
+/// The level-α test of a continuous statistic. Two-sided: the half-width c
+/// with P0(|T − t0| > c) = α (solved, so asymmetric H0 work too).
+pub fn continuous_level<C0: Continuous, C1: Continuous>(
+    h0: &C0,
+    h1: &C1,
+    alternative: Alternative,
+    centre: f64,
+    level: f64,
+) -> Result<(ContinuousCut, Errors), ThresholdError> {
+    let cut = match alternative {
+        Alternative::Greater => ContinuousCut::Above(h0.quantile_upper(level)?),
+        Alternative::Less => ContinuousCut::Below(h0.quantile(level)?),
+        Alternative::TwoSided => {
+            // ln α(c) − ln level falls from ln(1/level) > 0 at c = 0.
+            let f = |c: f64| (h0.cdf(centre - c) + h0.sf(centre + c)).ln() - level.ln();
+            let (lo, hi) = expand(f, 0.0, h0.spread(), 1.0, 80)?;
+            let root = brent(f, lo, hi, Tolerance::TIGHT)?;
+            ContinuousCut::Outside { centre, half_width: root.x }
+        }
+    };
+    Ok((cut, continuous_errors(h0, h1, cut)))
+}
+
+/// The level-α test of a count: the largest rejection region whose exact
+/// α does not exceed the level. Two-sided: the smallest half-width, over the
+/// distinct distances |x − m0|, with α ≤ level.
+pub fn discrete_level<D0: Discrete, D1: Discrete>(
+    h0: &D0,
+    h1: &D1,
+    alternative: Alternative,
+    centre: f64,
+    level: f64,
+) -> Result<(DiscreteCut, Errors), ThresholdError> {
+    let cut = match alternative {
+        Alternative::Greater => DiscreteCut::AtLeast(h0.quantile_upper(level)? as i64 + 1),
+        Alternative::Less => {
+            let j = h0.quantile(level)?;
+            DiscreteCut::AtMost(if h0.cdf(j) <= level { j as i64 } else { j as i64 - 1 })
+        }
+        Alternative::TwoSided => {
+            let support = h0.support_max();
+            // Counts outside [first, top] carry H0 mass below 1e-300: they
+            // cannot move α across any level a user can state.
+            let top = h0.quantile_upper(1e-300)?.min(support);
+            let first = h0.quantile(1e-300)?;
+            let mut distances: Vec<f64> = (first..=top).map(|x| (x as f64 - centre).abs()).collect();
+            distances.sort_by(f64::total_cmp);
+            distances.dedup_by(|a, b| (*a - *b).abs() <= 1e-9 * (1.0 + centre.abs()));
+            let region = |c: f64| outside(centre, c, support);
+            // α falls as the half-width grows: bisect for the first fit.
+            let (mut a, mut b) = (0usize, distances.len());
+            while a < b {
+                let m = (a + b) / 2;
+                if discrete_errors(h0, h1, region(distances[m])).alpha <= level { b = m } else { a = m + 1 }
+            }
+            match distances.get(a) {
+                Some(&c) => region(c),
+                None => DiscreteCut::Outside { centre, half_width: f64::INFINITY, low: None, high: None },
+            }
+        }
+    };
+    Ok((cut, discrete_errors(h0, h1, cut)))
+}
+
+/// The two-sided count region |X − m0| > c as X ≤ low or X ≥ high.
+pub fn outside(centre: f64, half_width: f64, support: u64) -> DiscreteCut {
+    let tol = 1e-9 * (1.0 + centre.abs());
+    let k_low = (centre - half_width - tol).ceil() as i64 - 1;
+    let k_high = (centre + half_width + tol).floor() as i64 + 1;
+    DiscreteCut::Outside {
+        centre,
+        half_width,
+        low: if k_low >= 0 { Some(k_low) } else { None },
+        high: if k_high >= 0 && (k_high as u64) <= support { Some(k_high) } else { None },
+    }
+}

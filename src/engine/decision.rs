@@ -1,0 +1,265 @@
+//! Decision from summary data: the observed statistic, the threshold for the
+//! actual n, the three-way outcome with a plain sentence, and the
+//! conventional figures (p-value, critical value, power) for reviewers.
+//!
+//! Rules (DEVELOPERS.md, "Decision from summary data"): inconclusive when
+//! the design at the actual n is not conclusive; otherwise reject H0 when the
+//! observed statistic lies in the rejection region of c*.
+
+use super::design::{Design, Effect, Family};
+use super::dist::{Continuous, Discrete};
+use super::evaluate::{Cut, EvaluateError, Evaluation, evaluate_observed, sig3};
+use super::model::{Observed, Sampling};
+use super::threshold::{Alternative, ContinuousCut, DiscreteCut};
+use serde::Serialize;
+
+/// Summary data, as a user reads them off a report or a spreadsheet.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Summary {
+    /// One group of observations (or of paired differences). `sd` is not
+    /// used by the z test (σ known) and required by the t tests.
+    OneGroup { n: f64, mean: f64, sd: Option<f64> },
+    TwoGroups { n1: f64, mean1: f64, sd1: f64, n2: f64, mean2: f64, sd2: f64 },
+    Proportion { successes: f64, trials: f64 },
+    TwoProportions { successes1: f64, trials1: f64, successes2: f64, trials2: f64 },
+}
+
+/// The three outcomes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Outcome {
+    RejectH0,
+    DoNotRejectH0,
+    Inconclusive,
+}
+
+/// What a reviewer used to p-values expects to see.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ConventionalReading {
+    pub p_value: f64,
+    /// Would the conventional test at level α_max reject?
+    pub rejects_at_alpha_max: bool,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Decision {
+    pub outcome: Outcome,
+    /// One plain-language sentence.
+    pub reading: String,
+    /// The observed statistic (z, t, or the count X).
+    pub statistic: f64,
+    /// The observed estimate: a mean, a difference or a proportion.
+    pub estimate: f64,
+    /// The design at the actual sample size.
+    pub at_n: Evaluation,
+    pub conventional: ConventionalReading,
+}
+
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum DecisionError {
+    #[error("{field} is {value}, but must be {rule}")]
+    Value { field: &'static str, value: f64, rule: &'static str },
+    #[error("{field} is missing: {hint}")]
+    Missing { field: &'static str, hint: &'static str },
+    #[error("the data give {given}, but the family {family} needs {needs}")]
+    WrongKind { given: &'static str, family: &'static str, needs: &'static str },
+    #[error("{0}")]
+    Undefined(&'static str),
+    #[error(transparent)]
+    Evaluate(#[from] EvaluateError),
+}
+
+fn count(field: &'static str, v: f64, min: f64) -> Result<u64, DecisionError> {
+    if v.is_finite() && v.fract() == 0.0 && v >= min && v <= 1e7 {
+        Ok(v as u64)
+    } else {
+        let rule = if min >= 2.0 { "a whole number from 2 to 10000000" } else { "a whole number from 1 to 10000000" };
+        Err(DecisionError::Value { field, value: v, rule })
+    }
+}
+
+fn finite(field: &'static str, v: f64) -> Result<f64, DecisionError> {
+    if v.is_finite() { Ok(v) } else { Err(DecisionError::Value { field, value: v, rule: "a finite number" }) }
+}
+
+fn sd(field: &'static str, v: f64) -> Result<f64, DecisionError> {
+    if v.is_finite() && v > 0.0 {
+        Ok(v)
+    } else {
+        Err(DecisionError::Value { field, value: v, rule: "a finite number > 0 (with sd = 0 the t statistic is undefined)" })
+    }
+}
+
+fn kind(s: &Summary) -> &'static str {
+    match s {
+        Summary::OneGroup { .. } => "one group (n, mean, sd)",
+        Summary::TwoGroups { .. } => "two groups (n1, mean1, sd1, n2, mean2, sd2)",
+        Summary::Proportion { .. } => "successes and trials",
+        Summary::TwoProportions { .. } => "successes and trials per group",
+    }
+}
+
+fn needs(f: Family) -> &'static str {
+    match f {
+        Family::MeanZ | Family::MeanT => "one group: n, mean (and sd for the t test)",
+        Family::PairedT => "the differences: n, mean, sd",
+        Family::TwoMeansPooled | Family::TwoMeansWelch => "two groups: n1, mean1, sd1, n2, mean2, sd2",
+        Family::ProportionExact | Family::ProportionNormal => "successes and trials",
+        Family::TwoProportions => "successes1, trials1, successes2, trials2",
+    }
+}
+
+/// Decide from summary data.
+pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError> {
+    let (theta0, _) = design.effect.thetas();
+    let family = design.family;
+    let wrong = || DecisionError::WrongKind { given: kind(data), family: family.id(), needs: needs(family) };
+    // Statistic, estimate, group sizes and observed spreads.
+    let (t, estimate, n1, n2, obs) = match (family, *data) {
+        (Family::MeanZ, Summary::OneGroup { n, mean, .. }) => {
+            let n = count("data.n", n, 1.0)?;
+            let mean = finite("data.mean", mean)?;
+            let Effect::Mean { sigma, .. } = design.effect else { return Err(wrong()) };
+            if design.standardised {
+                return Err(DecisionError::Undefined(
+                    "a decision with σ known needs the design in raw units: give theta0, theta1 and sigma instead of d",
+                ));
+            }
+            ((mean - theta0) / (sigma / (n as f64).sqrt()), mean, n, None, Observed::default())
+        }
+        (Family::MeanT | Family::PairedT, Summary::OneGroup { n, mean, sd: s }) => {
+            let n = count("data.n", n, 2.0)?;
+            let mean = finite("data.mean", mean)?;
+            let s = sd("data.sd", s.ok_or(DecisionError::Missing { field: "data.sd", hint: "the t test needs the sample standard deviation" })?)?;
+            let obs = Observed { sd1: Some(s), ..Observed::default() };
+            ((mean - theta0) / (s / (n as f64).sqrt()), mean, n, None, obs)
+        }
+        (Family::TwoMeansPooled | Family::TwoMeansWelch, Summary::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 }) => {
+            let (n1, n2) = (count("data.n1", n1, 2.0)?, count("data.n2", n2, 2.0)?);
+            let (m1, m2) = (finite("data.mean1", mean1)?, finite("data.mean2", mean2)?);
+            let (s1, s2) = (sd("data.sd1", sd1)?, sd("data.sd2", sd2)?);
+            let (a, b) = (n1 as f64, n2 as f64);
+            let diff = m1 - m2;
+            let se = if family == Family::TwoMeansPooled {
+                let sp2 = ((a - 1.0) * s1 * s1 + (b - 1.0) * s2 * s2) / (a + b - 2.0);
+                (sp2 * (1.0 / a + 1.0 / b)).sqrt()
+            } else {
+                (s1 * s1 / a + s2 * s2 / b).sqrt()
+            };
+            let obs = Observed { sd1: Some(s1), sd2: Some(s2), se0: None };
+            ((diff - theta0) / se, diff, n1, Some(n2), obs)
+        }
+        (Family::ProportionExact | Family::ProportionNormal, Summary::Proportion { successes, trials }) => {
+            let n = count("data.trials", trials, 1.0)?;
+            let x = successes;
+            if !(x.is_finite() && x.fract() == 0.0 && x >= 0.0 && x <= n as f64) {
+                return Err(DecisionError::Value { field: "data.successes", value: x, rule: "a whole number from 0 to the number of trials" });
+            }
+            let p_hat = x / n as f64;
+            let t = if family == Family::ProportionExact { x } else { (p_hat - theta0) / (theta0 * (1.0 - theta0) / n as f64).sqrt() };
+            (t, p_hat, n, None, Observed::default())
+        }
+        (Family::TwoProportions, Summary::TwoProportions { successes1, trials1, successes2, trials2 }) => {
+            let (n1, n2) = (count("data.trials1", trials1, 1.0)?, count("data.trials2", trials2, 1.0)?);
+            for (field, x, n) in [("data.successes1", successes1, n1), ("data.successes2", successes2, n2)] {
+                if !(x.is_finite() && x.fract() == 0.0 && x >= 0.0 && x <= n as f64) {
+                    return Err(DecisionError::Value { field, value: x, rule: "a whole number from 0 to the number of trials" });
+                }
+            }
+            let (a, b) = (n1 as f64, n2 as f64);
+            let pooled = (successes1 + successes2) / (a + b);
+            if pooled <= 0.0 || pooled >= 1.0 {
+                return Err(DecisionError::Undefined(
+                    "every observation in both groups has the same outcome, so the pooled standard error is 0 and the z statistic is undefined",
+                ));
+            }
+            let se0 = (pooled * (1.0 - pooled) * (1.0 / a + 1.0 / b)).sqrt();
+            let diff = successes1 / a - successes2 / b;
+            (diff / se0, diff, n1, Some(n2), Observed { se0: Some(se0), ..Observed::default() })
+        }
+        _ => return Err(wrong()),
+    };
+    let at_n = evaluate_observed(design, n1, n2, &obs)?;
+    let model = &at_n.model;
+    let centre = model.setup.centre;
+    let in_region = match at_n.cut {
+        Cut::Continuous(ContinuousCut::Above(c)) => t > c,
+        Cut::Continuous(ContinuousCut::Below(c)) => t < c,
+        Cut::Continuous(ContinuousCut::Outside { centre, half_width }) => (t - centre).abs() > half_width,
+        Cut::Discrete(DiscreteCut::AtLeast(k)) => t >= k as f64,
+        Cut::Discrete(DiscreteCut::AtMost(k)) => t <= k as f64,
+        Cut::Discrete(DiscreteCut::Outside { centre, half_width, .. }) => {
+            (t - centre).abs() > half_width + 1e-9 * (1.0 + centre.abs())
+        }
+    };
+    let p_value = match &model.sampling {
+        Sampling::Continuous { h0, .. } => match design.alternative {
+            Alternative::Greater => h0.sf(t),
+            Alternative::Less => h0.cdf(t),
+            Alternative::TwoSided => {
+                let a = (t - centre).abs();
+                (h0.cdf(centre - a) + h0.sf(centre + a)).min(1.0)
+            }
+        },
+        Sampling::Discrete { h0, .. } => {
+            let x = t as u64;
+            match design.alternative {
+                Alternative::Greater => if x == 0 { 1.0 } else { h0.sf(x - 1) },
+                Alternative::Less => h0.cdf(x),
+                Alternative::TwoSided => {
+                    let a = (t - centre).abs();
+                    let tol = 1e-9 * (1.0 + centre.abs());
+                    let low = (centre - a + tol).floor();
+                    let high = (centre + a - tol).ceil();
+                    let lower = if low >= 0.0 { h0.cdf(low as u64) } else { 0.0 };
+                    let upper = if high <= 0.0 { 1.0 } else { h0.sf(high as u64 - 1) };
+                    (lower + upper).min(1.0)
+                }
+            }
+        }
+    };
+    let outcome = if !at_n.conclusive {
+        Outcome::Inconclusive
+    } else if in_region {
+        Outcome::RejectH0
+    } else {
+        Outcome::DoNotRejectH0
+    };
+    let reading = reading(design, &at_n, outcome, t, estimate);
+    Ok(Decision {
+        outcome,
+        reading,
+        statistic: t,
+        estimate,
+        conventional: ConventionalReading { p_value, rejects_at_alpha_max: p_value <= design.alpha_max },
+        at_n,
+    })
+}
+
+fn reading(design: &Design, at_n: &Evaluation, outcome: Outcome, t: f64, estimate: f64) -> String {
+    let name = at_n.statistic;
+    let n = match at_n.n2 {
+        Some(n2) => format!("n1 = {}, n2 = {}", at_n.n1, n2),
+        None => format!("n = {}", at_n.n1),
+    };
+    let observed = format!("the observed {name} = {} (estimate {})", sig3(t), sig3(estimate));
+    match outcome {
+        Outcome::Inconclusive => format!(
+            "Inconclusive: with {n} this design cannot keep both error rates within their limits (α* = {}, β* = {}; limits {} and {}), so the data cannot settle the question; {observed} is reported for information only.",
+            sig3(at_n.alpha),
+            sig3(at_n.beta),
+            sig3(design.alpha_max),
+            sig3(design.beta_max)
+        ),
+        Outcome::RejectH0 => format!(
+            "Reject H0: {observed} lies in the rejection region of the threshold that minimises the total error; with {n} both error rates are within their limits (α* = {}, β* = {}).",
+            sig3(at_n.alpha),
+            sig3(at_n.beta)
+        ),
+        Outcome::DoNotRejectH0 => format!(
+            "Do not reject H0: {observed} does not reach the threshold that minimises the total error; with {n} both error rates are within their limits (α* = {}, β* = {}), so an effect as large as the one planned for would probably have been detected.",
+            sig3(at_n.alpha),
+            sig3(at_n.beta)
+        ),
+    }
+}

@@ -1,0 +1,324 @@
+//! From a design and a sample size to the sampling distributions of the
+//! test statistic under H0 and under θ1 (DEVELOPERS.md, "Families").
+//!
+//! Architecture invariant: this is the only module that knows which
+//! distribution each family's statistic follows; the threshold, search and
+//! decision code see only the two distributions, the direction and the map
+//! from the statistic to the estimate.
+
+use super::design::{Design, Effect, Family, N_MAX};
+use super::dist::{Binomial, Continuous, DistError, Discrete, NoncentralT, Normal, StudentT};
+use super::threshold::Setup;
+
+/// A continuous sampling distribution.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum ContDist {
+    Normal(Normal),
+    T(StudentT),
+    Nct(NoncentralT),
+}
+
+/// A discrete sampling distribution.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum DiscDist {
+    Binomial(Binomial),
+}
+
+macro_rules! delegate {
+    ($self:ident, $d:ident => $e:expr) => {
+        match $self {
+            ContDist::Normal($d) => $e,
+            ContDist::T($d) => $e,
+            ContDist::Nct($d) => $e,
+        }
+    };
+}
+
+impl Continuous for ContDist {
+    fn pdf(&self, x: f64) -> f64 {
+        delegate!(self, d => d.pdf(x))
+    }
+    fn ln_pdf(&self, x: f64) -> f64 {
+        delegate!(self, d => d.ln_pdf(x))
+    }
+    fn cdf(&self, x: f64) -> f64 {
+        delegate!(self, d => d.cdf(x))
+    }
+    fn sf(&self, x: f64) -> f64 {
+        delegate!(self, d => d.sf(x))
+    }
+    fn quantile(&self, p: f64) -> Result<f64, DistError> {
+        delegate!(self, d => d.quantile(p))
+    }
+    fn quantile_upper(&self, q: f64) -> Result<f64, DistError> {
+        delegate!(self, d => d.quantile_upper(q))
+    }
+    fn centre(&self) -> f64 {
+        delegate!(self, d => d.centre())
+    }
+    fn spread(&self) -> f64 {
+        delegate!(self, d => d.spread())
+    }
+}
+
+impl Discrete for DiscDist {
+    fn pmf(&self, k: u64) -> f64 {
+        match self {
+            DiscDist::Binomial(d) => d.pmf(k),
+        }
+    }
+    fn ln_pmf(&self, k: u64) -> f64 {
+        match self {
+            DiscDist::Binomial(d) => d.ln_pmf(k),
+        }
+    }
+    fn cdf(&self, k: u64) -> f64 {
+        match self {
+            DiscDist::Binomial(d) => d.cdf(k),
+        }
+    }
+    fn sf(&self, k: u64) -> f64 {
+        match self {
+            DiscDist::Binomial(d) => d.sf(k),
+        }
+    }
+    fn quantile(&self, p: f64) -> Result<u64, DistError> {
+        match self {
+            DiscDist::Binomial(d) => d.quantile(p),
+        }
+    }
+    fn quantile_upper(&self, q: f64) -> Result<u64, DistError> {
+        match self {
+            DiscDist::Binomial(d) => d.quantile_upper(q),
+        }
+    }
+    fn support_max(&self) -> u64 {
+        match self {
+            DiscDist::Binomial(d) => d.support_max(),
+        }
+    }
+    fn centre(&self) -> f64 {
+        match self {
+            DiscDist::Binomial(d) => d.centre(),
+        }
+    }
+}
+
+/// The pair of sampling distributions.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Sampling {
+    Continuous { h0: ContDist, h1: ContDist },
+    Discrete { h0: DiscDist, h1: DiscDist },
+}
+
+/// Observed standard deviations from data, which replace the planning ones
+/// where the statistic uses them (the estimate scale of t statistics and
+/// Welch's degrees of freedom).
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+pub struct Observed {
+    /// SD of group 1 (or of the observations or differences).
+    pub sd1: Option<f64>,
+    pub sd2: Option<f64>,
+    /// Standard error of the estimate under H0 (two proportions: from the
+    /// observed pooled rate).
+    pub se0: Option<f64>,
+}
+
+/// Everything the solvers need about a design at one sample size.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Model {
+    pub sampling: Sampling,
+    pub setup: Setup,
+    /// estimate = offset + slope · T.
+    pub offset: f64,
+    pub slope: f64,
+    /// The statistic's name: "z", "t" or "X".
+    pub statistic: &'static str,
+    pub n1: u64,
+    pub n2: Option<u64>,
+    /// Degrees of freedom of t statistics.
+    pub df: Option<f64>,
+    /// Noncentrality (the mean of T under θ1 for z statistics).
+    pub ncp: Option<f64>,
+    /// The approximation the family relies on, named for the output.
+    pub approximation: Option<&'static str>,
+}
+
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ModelError {
+    #[error("{field} is {value}, but must be a whole number from {min} to {max}")]
+    SampleSize { field: &'static str, value: f64, min: u64, max: u64 },
+    #[error("the sampling distribution cannot be formed: {0}")]
+    Dist(#[from] DistError),
+}
+
+/// Welch–Satterthwaite degrees of freedom for variances of the means v1, v2.
+pub fn welch_df(v1: f64, v2: f64, n1: u64, n2: u64) -> f64 {
+    (v1 + v2).powi(2) / (v1 * v1 / (n1 - 1) as f64 + v2 * v2 / (n2 - 1) as f64)
+}
+
+impl Design {
+    /// The model at n1 (n2 from the allocation ratio) with planning values.
+    pub fn model(&self, n1: u64) -> Result<Model, ModelError> {
+        let n2 = self.n2(n1);
+        self.model_observed(n1, n2, &Observed::default())
+    }
+
+    /// The model at the given group sizes, with observed SDs where the
+    /// statistic uses them.
+    pub fn model_observed(&self, n1: u64, n2: Option<u64>, obs: &Observed) -> Result<Model, ModelError> {
+        let min = self.family.n_min();
+        let field = if self.family.two_groups() { "n1" } else { "n" };
+        if n1 < min || n1 > N_MAX {
+            return Err(ModelError::SampleSize { field, value: n1 as f64, min, max: N_MAX });
+        }
+        let n2v = match (self.family.two_groups(), n2) {
+            (true, Some(m)) if m >= min && m <= N_MAX => m,
+            (true, m) => {
+                return Err(ModelError::SampleSize { field: "n2", value: m.map_or(f64::NAN, |m| m as f64), min, max: N_MAX });
+            }
+            (false, _) => 0,
+        };
+        let (theta0, theta1) = self.effect.thetas();
+        let delta = theta1 - theta0;
+        let alt = self.alternative;
+        let setup = |single_crossing| Setup { alternative: alt, centre: 0.0, weight: self.weight, single_crossing };
+        let n = n1 as f64;
+        let (m1, m2) = (n, n2v as f64);
+        let model = match (self.family, self.effect) {
+            (Family::MeanZ, Effect::Mean { sigma, .. }) => {
+                let se = sigma / n.sqrt();
+                let ncp = delta / se;
+                Model {
+                    sampling: Sampling::Continuous { h0: ContDist::Normal(Normal::STANDARD), h1: ContDist::Normal(Normal::new(ncp, 1.0)?) },
+                    setup: setup(true),
+                    offset: theta0,
+                    slope: se,
+                    statistic: "z",
+                    n1,
+                    n2: None,
+                    df: None,
+                    ncp: Some(ncp),
+                    approximation: None,
+                }
+            }
+            (Family::MeanT | Family::PairedT, Effect::Mean { sigma, .. }) => {
+                let df = n - 1.0;
+                let ncp = delta / (sigma / n.sqrt());
+                Model {
+                    sampling: Sampling::Continuous { h0: ContDist::T(StudentT::new(df)?), h1: ContDist::Nct(NoncentralT::new(df, ncp)?) },
+                    setup: setup(true),
+                    offset: theta0,
+                    slope: obs.sd1.unwrap_or(sigma) / n.sqrt(),
+                    statistic: "t",
+                    n1,
+                    n2: None,
+                    df: Some(df),
+                    ncp: Some(ncp),
+                    approximation: None,
+                }
+            }
+            (Family::TwoMeansPooled, Effect::Mean { sigma, .. }) => {
+                let df = m1 + m2 - 2.0;
+                let f = (1.0 / m1 + 1.0 / m2).sqrt();
+                let ncp = delta / (sigma * f);
+                let sd = match (obs.sd1, obs.sd2) {
+                    (Some(s1), Some(s2)) => (((m1 - 1.0) * s1 * s1 + (m2 - 1.0) * s2 * s2) / df).sqrt(),
+                    _ => sigma,
+                };
+                Model {
+                    sampling: Sampling::Continuous { h0: ContDist::T(StudentT::new(df)?), h1: ContDist::Nct(NoncentralT::new(df, ncp)?) },
+                    setup: setup(true),
+                    offset: theta0,
+                    slope: sd * f,
+                    statistic: "t",
+                    n1,
+                    n2: Some(n2v),
+                    df: Some(df),
+                    ncp: Some(ncp),
+                    approximation: None,
+                }
+            }
+            (Family::TwoMeansWelch, Effect::Welch { sigma1, sigma2, .. }) => {
+                let (v1, v2) = (sigma1 * sigma1 / m1, sigma2 * sigma2 / m2);
+                let se = (v1 + v2).sqrt();
+                let ncp = delta / se;
+                let (o1, o2) = match (obs.sd1, obs.sd2) {
+                    (Some(s1), Some(s2)) => (s1 * s1 / m1, s2 * s2 / m2),
+                    _ => (v1, v2),
+                };
+                let df = welch_df(o1, o2, n1, n2v);
+                Model {
+                    sampling: Sampling::Continuous { h0: ContDist::T(StudentT::new(df)?), h1: ContDist::Nct(NoncentralT::new(df, ncp)?) },
+                    setup: setup(true),
+                    offset: theta0,
+                    slope: (o1 + o2).sqrt(),
+                    statistic: "t",
+                    n1,
+                    n2: Some(n2v),
+                    df: Some(df),
+                    ncp: Some(ncp),
+                    approximation: Some("Welch–Satterthwaite degrees of freedom"),
+                }
+            }
+            (Family::ProportionExact, Effect::Proportion { p0, p1 }) => Model {
+                sampling: Sampling::Discrete { h0: DiscDist::Binomial(Binomial::new(n1, p0)?), h1: DiscDist::Binomial(Binomial::new(n1, p1)?) },
+                setup: Setup { centre: n * p0, ..setup(true) },
+                offset: 0.0,
+                slope: 1.0 / n,
+                statistic: "X",
+                n1,
+                n2: None,
+                df: None,
+                ncp: None,
+                approximation: None,
+            },
+            (Family::ProportionNormal, Effect::Proportion { p0, p1 }) => {
+                let se0 = (p0 * (1.0 - p0) / n).sqrt();
+                let se1 = (p1 * (1.0 - p1) / n).sqrt();
+                let mean = delta / se0;
+                Model {
+                    sampling: Sampling::Continuous {
+                        h0: ContDist::Normal(Normal::STANDARD),
+                        h1: ContDist::Normal(Normal::new(mean, se1 / se0)?),
+                    },
+                    setup: setup(false),
+                    offset: p0,
+                    slope: se0,
+                    statistic: "z",
+                    n1,
+                    n2: None,
+                    df: None,
+                    ncp: Some(mean),
+                    approximation: Some("normal approximation to the binomial, SE from p0 under H0 and from p1 under the alternative, no continuity correction"),
+                }
+            }
+            (Family::TwoProportions, Effect::TwoProportions { p1, p2 }) => {
+                let pbar = (p1 + self.ratio * p2) / (1.0 + self.ratio);
+                let se0 = (pbar * (1.0 - pbar) * (1.0 / m1 + 1.0 / m2)).sqrt();
+                let se1 = (p1 * (1.0 - p1) / m1 + p2 * (1.0 - p2) / m2).sqrt();
+                let mean = delta / se0;
+                Model {
+                    sampling: Sampling::Continuous {
+                        h0: ContDist::Normal(Normal::STANDARD),
+                        h1: ContDist::Normal(Normal::new(mean, se1 / se0)?),
+                    },
+                    setup: setup(false),
+                    offset: 0.0,
+                    slope: obs.se0.unwrap_or(se0),
+                    statistic: "z",
+                    n1,
+                    n2: Some(n2v),
+                    df: None,
+                    ncp: Some(mean),
+                    approximation: Some("normal approximation, pooled SE under H0 and unpooled SE under the alternative, no continuity correction"),
+                }
+            }
+            // Design::new pairs every family with its own effect kind.
+            (family, _) => {
+                return Err(ModelError::Dist(DistError::Parameter { name: family.id(), value: f64::NAN, rule: "paired with its own kind of effect" }));
+            }
+        };
+        Ok(model)
+    }
+}

@@ -1,0 +1,190 @@
+//! Bracketing root finding (Brent's method) with an explicit tolerance and
+//! iteration budget.
+//!
+//! Source: R. P. Brent (1973), *Algorithms for Minimization without
+//! Derivatives*, ch. 4 (the `zero` procedure): inverse quadratic
+//! interpolation guarded by bisection, so convergence is superlinear on
+//! smooth functions and never slower than bisection.
+//!
+//! "Not bracketed" and "did not converge" are errors, never a silent guess.
+
+/// When to stop, and how much work is allowed.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Tolerance {
+    /// Absolute width of the final bracket.
+    pub abs: f64,
+    /// Width relative to |x|; the bracket may be `abs + rel·|x|` wide.
+    pub rel: f64,
+    /// Maximum number of function evaluations after the two end points.
+    pub max_iterations: usize,
+}
+
+impl Tolerance {
+    /// Close to machine precision: 4 ulp relative, with a tiny absolute floor.
+    pub const TIGHT: Tolerance = Tolerance { abs: 1e-300, rel: 4.0 * f64::EPSILON, max_iterations: 200 };
+}
+
+/// A root with the bracket that proves it and the work it took.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Root {
+    pub x: f64,
+    /// Final bracket [lo, hi] with a sign change (or an exact zero at x).
+    pub bracket: (f64, f64),
+    pub iterations: usize,
+}
+
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum RootError {
+    #[error("the search interval [{lo}, {hi}] does not bracket a root (f = {f_lo} and {f_hi})")]
+    NotBracketed { lo: f64, hi: f64, f_lo: f64, f_hi: f64 },
+    #[error("the root search did not converge within {iterations} iterations (bracket [{lo}, {hi}])")]
+    DidNotConverge { iterations: usize, lo: f64, hi: f64 },
+    #[error("the function is not finite at x = {x}")]
+    NotFinite { x: f64 },
+}
+
+/// Find x in [lo, hi] with f(x) = 0, given f(lo) and f(hi) of opposite signs
+/// (or one of them exactly 0).
+pub fn brent<F: FnMut(f64) -> f64>(mut f: F, lo: f64, hi: f64, tol: Tolerance) -> Result<Root, RootError> {
+    let (mut a, mut b) = (lo, hi);
+    let (mut fa, mut fb) = (f(a), f(b));
+    if fa.is_nan() {
+        return Err(RootError::NotFinite { x: a });
+    }
+    if fb.is_nan() {
+        return Err(RootError::NotFinite { x: b });
+    }
+    if fa == 0.0 {
+        return Ok(Root { x: a, bracket: (a, a), iterations: 0 });
+    }
+    if fb == 0.0 {
+        return Ok(Root { x: b, bracket: (b, b), iterations: 0 });
+    }
+    if fa.signum() == fb.signum() {
+        return Err(RootError::NotBracketed { lo, hi, f_lo: fa, f_hi: fb });
+    }
+    let (mut c, mut fc) = (a, fa);
+    let (mut d, mut e) = (b - a, b - a);
+    for iteration in 1..=tol.max_iterations {
+        if fb.signum() == fc.signum() {
+            c = a;
+            fc = fa;
+            d = b - a;
+            e = d;
+        }
+        if fc.abs() < fb.abs() {
+            a = b;
+            b = c;
+            c = a;
+            fa = fb;
+            fb = fc;
+            fc = fa;
+        }
+        let t = 0.5 * (tol.abs + tol.rel * b.abs());
+        let m = 0.5 * (c - b);
+        if m.abs() <= t || fb == 0.0 {
+            let bracket = if b < c { (b, c) } else { (c, b) };
+            return Ok(Root { x: b, bracket, iterations: iteration });
+        }
+        if e.abs() < t || fa.abs() <= fb.abs() {
+            d = m;
+            e = m;
+        } else {
+            let s = fb / fa;
+            let (mut p, mut q);
+            if a == c {
+                p = 2.0 * m * s;
+                q = 1.0 - s;
+            } else {
+                let qa = fa / fc;
+                let r = fb / fc;
+                p = s * (2.0 * m * qa * (qa - r) - (b - a) * (r - 1.0));
+                q = (qa - 1.0) * (r - 1.0) * (s - 1.0);
+            }
+            if p > 0.0 {
+                q = -q;
+            } else {
+                p = -p;
+            }
+            if 2.0 * p < 3.0 * m * q - (t * q).abs() && p < (0.5 * e * q).abs() {
+                e = d;
+                d = p / q;
+            } else {
+                d = m;
+                e = m;
+            }
+        }
+        a = b;
+        fa = fb;
+        b += if d.abs() > t { d } else { t.copysign(m) };
+        fb = f(b);
+        if fb.is_nan() {
+            return Err(RootError::NotFinite { x: b });
+        }
+    }
+    let (lo, hi) = if b < c { (b, c) } else { (c, b) };
+    Err(RootError::DidNotConverge { iterations: tol.max_iterations, lo, hi })
+}
+
+/// Widen [lo, hi] geometrically (by `step`, doubling each time) on the side
+/// named until f changes sign between `anchor` and the moving end; returns
+/// the bracket. `direction` is +1 to move right, −1 to move left.
+pub fn expand<F: FnMut(f64) -> f64>(
+    mut f: F,
+    anchor: f64,
+    step: f64,
+    direction: f64,
+    max_steps: usize,
+) -> Result<(f64, f64), RootError> {
+    let fa = f(anchor);
+    if fa.is_nan() {
+        return Err(RootError::NotFinite { x: anchor });
+    }
+    let mut prev = anchor;
+    let mut width = step.abs().max(f64::MIN_POSITIVE);
+    for _ in 0..max_steps {
+        let x = anchor + direction * width;
+        let fx = f(x);
+        if fx.is_nan() {
+            return Err(RootError::NotFinite { x });
+        }
+        if fx == 0.0 || fx.signum() != fa.signum() {
+            return Ok(if prev < x { (prev, x) } else { (x, prev) });
+        }
+        prev = x;
+        width *= 2.0;
+    }
+    let end = anchor + direction * width;
+    Err(RootError::NotBracketed { lo: anchor.min(end), hi: anchor.max(end), f_lo: fa, f_hi: fa })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn finds_known_roots() {
+        // cos(x) = x has the root 0.7390851332151607 (Dottie number; common
+        // practice, no source).
+        let r = brent(|x| x.cos() - x, 0.0, 1.0, Tolerance::TIGHT).unwrap();
+        assert!((r.x - 0.739_085_133_215_160_7).abs() < 1e-15);
+        let r = brent(|x| x * x - 2.0, 0.0, 2.0, Tolerance::TIGHT).unwrap();
+        assert!((r.x - std::f64::consts::SQRT_2).abs() < 1e-15);
+    }
+
+    #[test]
+    fn reports_missing_bracket_and_budget() {
+        assert!(matches!(brent(|x| x * x + 1.0, -1.0, 1.0, Tolerance::TIGHT), Err(RootError::NotBracketed { .. })));
+        let tiny = Tolerance { max_iterations: 2, ..Tolerance::TIGHT };
+        assert!(matches!(brent(|x| x.powi(3) - 0.3, 0.0, 1.0, tiny), Err(RootError::DidNotConverge { .. })));
+        assert!(matches!(brent(|_| f64::NAN, 0.0, 1.0, Tolerance::TIGHT), Err(RootError::NotFinite { .. })));
+    }
+
+    #[test]
+    fn expands_to_a_bracket() {
+        let (lo, hi) = expand(|x| x - 37.0, 0.0, 1.0, 1.0, 60).unwrap();
+        assert!(lo <= 37.0 && 37.0 <= hi);
+        let (lo, hi) = expand(|x| x + 5.0, 0.0, 1.0, -1.0, 60).unwrap();
+        assert!(lo <= -5.0 && -5.0 <= hi);
+    }
+}

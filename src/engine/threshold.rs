@@ -1,0 +1,524 @@
+//! The Youden threshold: the critical value c* that minimises the (weighted)
+//! total error w·α(c) + (1 − w)·β(c), for continuous and discrete statistics.
+//!
+//! Conventions (direction, the two-sided rule |T − t0| > c, ties) are those
+//! of DEVELOPERS.md, "Statistical conventions". A continuous c* is a root of
+//! ln((1 − w)·f1) − ln(w·f0) (one-sided; the two-sided form sums the
+//! densities at t0 ± c), found by Brent's method from a bracket, never read
+//! off a grid. A discrete c* is found exactly: the difference of the error
+//! between neighbouring cut-offs is a difference of masses, so the walk
+//! follows the likelihood ratio.
+
+use super::dist::{Continuous, DistError, Discrete};
+use super::root::{RootError, Tolerance, brent, expand};
+use serde::{Deserialize, Serialize};
+
+/// Which values of θ the alternative hypothesis covers.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Alternative {
+    /// θ1 > θ0: reject for large T.
+    Greater,
+    /// θ1 < θ0: reject for small T.
+    Less,
+    /// θ = θ0 ± δ: reject for T far from t0 on either side.
+    TwoSided,
+}
+
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ThresholdError {
+    #[error(transparent)]
+    Root(#[from] RootError),
+    #[error(transparent)]
+    Dist(#[from] DistError),
+    #[error("the cost weight is {0}, but must be between 0 and 1 (exclusive)")]
+    Weight(f64),
+}
+
+/// The rejection region of a continuous statistic T. Infinite values are
+/// allowed: `Above(+∞)` never rejects, `Above(−∞)` always rejects.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum ContinuousCut {
+    /// Reject when T > c.
+    Above(f64),
+    /// Reject when T < c.
+    Below(f64),
+    /// Reject when |T − centre| > half_width.
+    Outside { centre: f64, half_width: f64 },
+}
+
+/// The rejection region of a count X.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum DiscreteCut {
+    /// Reject when X ≥ k (k = support max + 1: never).
+    AtLeast(i64),
+    /// Reject when X ≤ k (k = −1: never).
+    AtMost(i64),
+    /// Reject when |X − centre| > half_width (half_width < 0: always);
+    /// equivalently X ≤ low or X ≥ high, a side being `None` when empty.
+    Outside { centre: f64, half_width: f64, low: Option<i64>, high: Option<i64> },
+}
+
+/// Errors of a rejection region.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Errors {
+    /// Type I error rate P0(reject).
+    pub alpha: f64,
+    /// Type II error rate P1(do not reject) at θ1.
+    pub beta: f64,
+}
+
+impl Errors {
+    pub fn weighted(&self, w: f64) -> f64 {
+        w * self.alpha + (1.0 - w) * self.beta
+    }
+}
+
+/// The Youden (or cost-weighted) threshold of a continuous statistic.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ContinuousSolution {
+    pub cut: ContinuousCut,
+    pub errors: Errors,
+    /// Function evaluations of the root searches, for diagnostics.
+    pub iterations: usize,
+}
+
+/// The Youden (or cost-weighted) threshold of a count, with its ties.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DiscreteSolution {
+    pub cut: DiscreteCut,
+    pub errors: Errors,
+    /// Every cut-off whose weighted error equals the minimum within 1e-12
+    /// relative, the pick included, in increasing order of k.
+    pub ties: Vec<DiscreteCut>,
+}
+
+/// Relative closeness under which two weighted errors count as tied.
+pub const TIE_TOLERANCE: f64 = 1e-12;
+
+/// What the threshold search knows about a pair of sampling distributions.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Setup {
+    pub alternative: Alternative,
+    /// t0: the value of T when the estimate equals θ0 (two-sided centre).
+    pub centre: f64,
+    /// Cost weight w in (0, 1); ½ is Youden's case.
+    pub weight: f64,
+    /// True when f1/f0 is monotone (monotone likelihood ratio) so that the
+    /// densities cross exactly once; false makes the search look for every
+    /// crossing (normal approximations whose variance differs under H1).
+    pub single_crossing: bool,
+}
+
+/// α and β of a continuous rejection region.
+pub fn continuous_errors<C0: Continuous, C1: Continuous>(h0: &C0, h1: &C1, cut: ContinuousCut) -> Errors {
+    match cut {
+        ContinuousCut::Above(c) => Errors { alpha: h0.sf(c), beta: h1.cdf(c) },
+        ContinuousCut::Below(c) => Errors { alpha: h0.cdf(c), beta: h1.sf(c) },
+        ContinuousCut::Outside { centre, half_width } => {
+            let (lo, hi) = (centre - half_width, centre + half_width);
+            let alpha = h0.cdf(lo) + h0.sf(hi);
+            // P1(lo ≤ T ≤ hi), from the tail that is smaller so that the
+            // difference keeps its digits.
+            let beta = if h1.cdf(hi) <= 0.5 { h1.cdf(hi) - h1.cdf(lo) } else { h1.sf(lo) - h1.sf(hi) };
+            Errors { alpha: alpha.min(1.0), beta: beta.clamp(0.0, 1.0) }
+        }
+    }
+}
+
+/// ln(e^a + e^b) without overflow or underflow.
+fn ln_add(a: f64, b: f64) -> f64 {
+    let (hi, lo) = if a >= b { (a, b) } else { (b, a) };
+    if hi == f64::NEG_INFINITY { hi } else { hi + (lo - hi).exp().ln_1p() }
+}
+
+fn check_weight(w: f64) -> Result<f64, ThresholdError> {
+    if w > 0.0 && w < 1.0 { Ok(w) } else { Err(ThresholdError::Weight(w)) }
+}
+
+/// Find the continuous threshold c* minimising w·α + (1 − w)·β.
+pub fn solve_continuous<C0: Continuous, C1: Continuous>(
+    h0: &C0,
+    h1: &C1,
+    setup: Setup,
+) -> Result<ContinuousSolution, ThresholdError> {
+    let w = check_weight(setup.weight)?;
+    let (lw0, lw1) = (w.ln(), (1.0 - w).ln());
+    let spread = h0.spread().max(h1.spread());
+    let mut iterations = 0usize;
+    match setup.alternative {
+        Alternative::Greater | Alternative::Less => {
+            // g(c) > 0 where the weighted H1 density is the larger one.
+            let g = |c: f64| (lw1 + h1.ln_pdf(c)) - (lw0 + h0.ln_pdf(c));
+            let make = |c: f64| match setup.alternative {
+                Alternative::Greater => ContinuousCut::Above(c),
+                _ => ContinuousCut::Below(c),
+            };
+            let mut candidates = Vec::with_capacity(4);
+            if setup.single_crossing {
+                let anchor = 0.5 * (h0.centre() + h1.centre());
+                let (c0, c1) = (h0.centre(), h1.centre());
+                // Under H1 above H0, g rises with c; below, it falls.
+                let rising = c1 > c0;
+                let ga = g(anchor);
+                let direction = if (ga < 0.0) == rising { 1.0 } else { -1.0 };
+                let (lo, hi) = expand(g, anchor, 0.25 * spread, direction, 80)?;
+                let root = brent(g, lo, hi, Tolerance::TIGHT)?;
+                iterations += root.iterations;
+                candidates.push(root.x);
+            } else {
+                for x in crossings(g, h0, h1, &mut iterations)? {
+                    candidates.push(x);
+                }
+            }
+            // The ends (never and always reject) compete too.
+            candidates.push(f64::INFINITY);
+            candidates.push(f64::NEG_INFINITY);
+            let best = pick(make(f64::INFINITY), candidates.into_iter().map(make), |cut| continuous_errors(h0, h1, cut), w);
+            Ok(ContinuousSolution { cut: best.0, errors: best.1, iterations })
+        }
+        Alternative::TwoSided => {
+            let t0 = setup.centre;
+            let g = |c: f64| {
+                let l1 = ln_add(h1.ln_pdf(t0 + c), h1.ln_pdf(t0 - c));
+                let l0 = ln_add(h0.ln_pdf(t0 + c), h0.ln_pdf(t0 - c));
+                (lw1 + l1) - (lw0 + l0)
+            };
+            let make = |c: f64| ContinuousCut::Outside { centre: t0, half_width: c };
+            let mut candidates = vec![0.0, f64::INFINITY];
+            let anchor = 0.5 * (h1.centre() - t0).abs();
+            let single = if setup.single_crossing {
+                let ga = g(anchor);
+                let direction = if ga < 0.0 { 1.0 } else { -1.0 };
+                // Moving left the search must stop at c = 0.
+                match expand(g, anchor, 0.25 * spread, direction, 80) {
+                    Ok((lo, hi)) if lo >= 0.0 => Some((lo, hi)),
+                    Ok(_) | Err(_) => None,
+                }
+            } else {
+                None
+            };
+            match single {
+                Some((lo, hi)) => {
+                    let root = brent(g, lo, hi, Tolerance::TIGHT)?;
+                    iterations += root.iterations;
+                    candidates.push(root.x);
+                }
+                None => {
+                    let reach = (h1.centre() - t0).abs() + 40.0 * spread;
+                    let grid = 400;
+                    let mut prev = (0.0, g(0.0));
+                    for i in 1..=grid {
+                        let x = reach * i as f64 / grid as f64;
+                        let gx = g(x);
+                        if gx.is_finite() && prev.1.is_finite() && (gx > 0.0) != (prev.1 > 0.0) {
+                            let root = brent(g, prev.0, x, Tolerance::TIGHT)?;
+                            iterations += root.iterations;
+                            candidates.push(root.x);
+                        }
+                        prev = (x, gx);
+                    }
+                }
+            }
+            let best = pick(make(f64::INFINITY), candidates.into_iter().map(make), |cut| continuous_errors(h0, h1, cut), w);
+            Ok(ContinuousSolution { cut: best.0, errors: best.1, iterations })
+        }
+    }
+}
+
+/// Every sign change of g over the central range of both distributions,
+/// polished by Brent's method. The scan only brackets; the roots are exact.
+fn crossings<G: Fn(f64) -> f64, C0: Continuous, C1: Continuous>(
+    g: G,
+    h0: &C0,
+    h1: &C1,
+    iterations: &mut usize,
+) -> Result<Vec<f64>, ThresholdError> {
+    let lo = (h0.centre() - 40.0 * h0.spread()).min(h1.centre() - 40.0 * h1.spread());
+    let hi = (h0.centre() + 40.0 * h0.spread()).max(h1.centre() + 40.0 * h1.spread());
+    let grid = 800;
+    let mut roots = Vec::new();
+    let mut prev = (lo, g(lo));
+    for i in 1..=grid {
+        let x = lo + (hi - lo) * i as f64 / grid as f64;
+        let gx = g(x);
+        if gx.is_finite() && prev.1.is_finite() && (gx > 0.0) != (prev.1 > 0.0) {
+            let root = brent(&g, prev.0, x, Tolerance::TIGHT)?;
+            *iterations += root.iterations;
+            roots.push(root.x);
+        }
+        prev = (x, gx);
+    }
+    Ok(roots)
+}
+
+/// The candidate with the smallest weighted error; ties (within
+/// [`TIE_TOLERANCE`]) go to the smaller α.
+fn pick<T: Copy, I: IntoIterator<Item = T>, E: Fn(T) -> Errors>(first: T, rest: I, errors: E, w: f64) -> (T, Errors) {
+    let mut best = (first, errors(first));
+    for cut in rest {
+        let e = errors(cut);
+        let (x, y) = (e.weighted(w), best.1.weighted(w));
+        if x < y * (1.0 - TIE_TOLERANCE) || (x <= y * (1.0 + TIE_TOLERANCE) && e.alpha < best.1.alpha) {
+            best = (cut, e);
+        }
+    }
+    best
+}
+
+/// α and β of a discrete rejection region.
+pub fn discrete_errors<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, cut: DiscreteCut) -> Errors {
+    // P(X ≥ k) and P(X ≤ k) for any integer k, support ends included.
+    let at_least = |d: &dyn DiscreteTail, k: i64| if k <= 0 { 1.0 } else { d.sf_k(k as u64 - 1) };
+    let at_most = |d: &dyn DiscreteTail, k: i64| if k < 0 { 0.0 } else { d.cdf_k(k as u64) };
+    match cut {
+        DiscreteCut::AtLeast(k) => Errors { alpha: at_least(h0, k), beta: 1.0_f64.min(at_most(h1, k - 1)) },
+        DiscreteCut::AtMost(k) => Errors { alpha: at_most(h0, k), beta: at_least(h1, k + 1) },
+        DiscreteCut::Outside { low, high, .. } => {
+            let alpha = low.map_or(0.0, |k| at_most(h0, k)) + high.map_or(0.0, |k| at_least(h0, k));
+            // Accepted: low+1 ..= high−1.
+            let a = low.map_or(0, |k| k + 1);
+            let b = high.map_or(i64::MAX, |k| k - 1);
+            let beta = if a > b {
+                0.0
+            } else {
+                let below = if a <= 0 { 0.0 } else { at_most(h1, a - 1) };
+                let above = if b == i64::MAX { 0.0 } else { at_least(h1, b + 1) };
+                (1.0 - below - above).max(0.0)
+            };
+            Errors { alpha: alpha.min(1.0), beta }
+        }
+    }
+}
+
+/// Object-safe access to the two tails, so the closures above can take
+/// either distribution.
+trait DiscreteTail {
+    fn cdf_k(&self, k: u64) -> f64;
+    fn sf_k(&self, k: u64) -> f64;
+}
+
+impl<D: Discrete> DiscreteTail for D {
+    fn cdf_k(&self, k: u64) -> f64 {
+        self.cdf(k)
+    }
+    fn sf_k(&self, k: u64) -> f64 {
+        self.sf(k)
+    }
+}
+
+/// Find the discrete threshold minimising w·α + (1 − w)·β, with its ties.
+///
+/// One-sided: the error changes between neighbouring cut-offs by
+/// D(k) = (1 − w)·p1(k) − w·p0(k); under a monotone likelihood ratio the sign
+/// of D changes once, so a bisection on the sign of ln((1−w)p1) − ln(w·p0)
+/// finds the optimum in O(log n) mass evaluations. Two-sided: the acceptance
+/// region grows by distance from the centre m0; the walk visits every
+/// distinct distance inside the range where either distribution has mass.
+pub fn solve_discrete<D0: Discrete, D1: Discrete>(
+    h0: &D0,
+    h1: &D1,
+    setup: Setup,
+) -> Result<DiscreteSolution, ThresholdError> {
+    let w = check_weight(setup.weight)?;
+    let (lw0, lw1) = (w.ln(), (1.0 - w).ln());
+    let top = tail_end(h0)?.max(tail_end(h1)?);
+    // Sign of D(k): > 0 where the weighted H1 mass is larger.
+    let d = |k: u64| (lw1 + h1.ln_pmf(k)) - (lw0 + h0.ln_pmf(k));
+    let errors = |cut| discrete_errors(h0, h1, cut);
+    match setup.alternative {
+        Alternative::Greater => {
+            // Smallest k in [0, top] with D(k) ≥ 0; none: never reject.
+            let k = first_true(0, top, |k| d(k) >= 0.0).map_or(top as i64 + 1, |k| k as i64);
+            let cut = DiscreteCut::AtLeast;
+            Ok(with_ties(k, cut, &errors, w, |c| match c {
+                DiscreteCut::AtLeast(k) => k,
+                _ => 0,
+            }))
+        }
+        Alternative::Less => {
+            // Largest k with D(k) ≥ 0, i.e. one below the first k with D < 0.
+            let k = match first_true(0, top, |k| d(k) < 0.0) {
+                Some(k) => k as i64 - 1,
+                None => top as i64,
+            };
+            Ok(with_ties(k, DiscreteCut::AtMost, &errors, w, |c| match c {
+                DiscreteCut::AtMost(k) => k,
+                _ => 0,
+            }))
+        }
+        Alternative::TwoSided => solve_discrete_two_sided(h0, h1, setup.centre, w, top),
+    }
+}
+
+/// The last count worth looking at: beyond it both distributions have
+/// negligible mass (upper tail below 1e-300, or the support's end).
+fn tail_end<D: Discrete>(d: &D) -> Result<u64, ThresholdError> {
+    let q = d.quantile_upper(1e-300)?;
+    Ok(q.min(d.support_max()))
+}
+
+/// Smallest k in [lo, hi] with `p(k)` true, for a predicate that is false
+/// then true (monotone); `None` when false everywhere.
+fn first_true<P: Fn(u64) -> bool>(lo: u64, hi: u64, p: P) -> Option<u64> {
+    if !p(hi) {
+        return None;
+    }
+    let (mut a, mut b) = (lo, hi);
+    while a < b {
+        let m = a + (b - a) / 2;
+        if p(m) { b = m } else { a = m + 1 }
+    }
+    Some(a)
+}
+
+/// Gather the neighbours of `k` whose weighted error ties with it, and pick
+/// the one with the smallest α.
+fn with_ties<F, M, K>(k: i64, make: M, errors: &F, w: f64, key: K) -> DiscreteSolution
+where
+    F: Fn(DiscreteCut) -> Errors,
+    M: Fn(i64) -> DiscreteCut,
+    K: Fn(DiscreteCut) -> i64,
+{
+    let e = errors(make(k));
+    let best = e.weighted(w);
+    let tied = |x: &Errors| (x.weighted(w) - best).abs() <= TIE_TOLERANCE * best.max(f64::MIN_POSITIVE);
+    let mut ties = vec![(make(k), e)];
+    for step in [-1i64, 1] {
+        let mut j = k + step;
+        // More than a handful of exact ties cannot happen under a monotone
+        // likelihood ratio; the bound keeps the walk finite regardless.
+        for _ in 0..4 {
+            let ej = errors(make(j));
+            if !tied(&ej) {
+                break;
+            }
+            ties.push((make(j), ej));
+            j += step;
+        }
+    }
+    ties.sort_by_key(|(c, _)| key(*c));
+    let (cut, errors) = ties
+        .iter()
+        .copied()
+        .fold(ties[0], |acc, x| if x.1.alpha < acc.1.alpha { x } else { acc });
+    DiscreteSolution { cut, errors, ties: ties.into_iter().map(|(c, _)| c).collect() }
+}
+
+fn solve_discrete_two_sided<D0: Discrete, D1: Discrete>(
+    h0: &D0,
+    h1: &D1,
+    m0: f64,
+    w: f64,
+    top: u64,
+) -> Result<DiscreteSolution, ThresholdError> {
+    // Counts outside [first, top] carry mass below 1e-300 under both.
+    let support = h0.support_max();
+    let first = h0.quantile(1e-300)?.min(h1.quantile(1e-300)?);
+    let mut points: Vec<(f64, u64)> = (first..=top).map(|x| ((x as f64 - m0).abs(), x)).collect();
+    points.sort_by(|a, b| a.0.total_cmp(&b.0));
+    // Group equal distances: x = m0 ± d share one, up to rounding of m0.
+    let same = |a: f64, b: f64| (a - b).abs() <= 1e-9 * (1.0 + m0.abs());
+    let region = |half_width: f64| super::conventional::outside(m0, half_width, support);
+    // Walk outward. E starts at w (everything rejected) and each accepted
+    // count changes it by (1 − w)·p1(x) − w·p0(x). The running sum only
+    // ranks candidates; the winners are recomputed from the tails.
+    let mut candidates: Vec<(f64, f64)> = vec![(-1.0, w)];
+    let mut e = w;
+    let mut i = 0;
+    while i < points.len() {
+        let d0 = points[i].0;
+        while i < points.len() && same(points[i].0, d0) {
+            let x = points[i].1;
+            e += (1.0 - w) * h1.pmf(x) - w * h0.pmf(x);
+            i += 1;
+        }
+        candidates.push((d0, e));
+    }
+    let min = candidates.iter().map(|c| c.1).fold(f64::INFINITY, f64::min);
+    // Anything close to the minimum in the running sum is re-evaluated.
+    let mut close: Vec<(DiscreteCut, Errors)> = candidates
+        .iter()
+        .filter(|c| c.1 <= min + 1e-9 * min.abs().max(1e-300))
+        .map(|c| {
+            let cut = if c.0 < 0.0 {
+                DiscreteCut::Outside { centre: m0, half_width: -1.0, low: None, high: Some(0) }
+            } else {
+                region(c.0)
+            };
+            (cut, discrete_errors(h0, h1, cut))
+        })
+        .collect();
+    close.sort_by(|a, b| a.1.weighted(w).total_cmp(&b.1.weighted(w)));
+    let best = close[0].1.weighted(w);
+    close.retain(|c| c.1.weighted(w) <= best + TIE_TOLERANCE * best);
+    let half = |c: &DiscreteCut| match c {
+        DiscreteCut::Outside { half_width, .. } => *half_width,
+        _ => 0.0,
+    };
+    close.sort_by(|a, b| half(&a.0).total_cmp(&half(&b.0)));
+    let pickd = close.iter().copied().fold(close[0], |acc, x| if x.1.alpha < acc.1.alpha { x } else { acc });
+    Ok(DiscreteSolution { cut: pickd.0, errors: pickd.1, ties: close.into_iter().map(|c| c.0).collect() })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::engine::dist::Normal;
+
+    fn setup(alternative: Alternative, weight: f64, single: bool) -> Setup {
+        Setup { alternative, centre: 0.0, weight, single_crossing: single }
+    }
+
+    /// Fact of the trade (common practice, no source): for a symmetric
+    /// unimodal location shift the Youden threshold is the midpoint and
+    /// α* = β* = Φ(−Δ/2).
+    #[test]
+    fn midpoint_for_a_normal_shift() {
+        for (delta, single) in [(2.5, true), (0.7, true), (-1.3, true), (2.5, false), (-4.0, false)] {
+            let h0 = Normal::STANDARD;
+            let h1 = Normal::new(delta, 1.0).unwrap();
+            let alt = if delta > 0.0 { Alternative::Greater } else { Alternative::Less };
+            let s = solve_continuous(&h0, &h1, setup(alt, 0.5, single)).unwrap();
+            let c = match s.cut {
+                ContinuousCut::Above(c) | ContinuousCut::Below(c) => c,
+                _ => f64::NAN,
+            };
+            assert!((c - delta / 2.0).abs() < 1e-14, "{delta}: {c}");
+            let expect = crate::engine::dist::Normal::STANDARD.cdf(-delta.abs() / 2.0);
+            assert!((s.errors.alpha - expect).abs() < 1e-15 && (s.errors.beta - expect).abs() < 1e-15);
+        }
+    }
+
+    /// Cost weight: the threshold moves to where f1/f0 = w/(1 − w), i.e.
+    /// c = Δ/2 + ln(w/(1−w))/Δ for unit-variance normals (likelihood-ratio
+    /// threshold; common practice, no source).
+    #[test]
+    fn weighted_threshold_is_the_likelihood_ratio_point() {
+        let h0 = Normal::STANDARD;
+        let h1 = Normal::new(2.0, 1.0).unwrap();
+        for w in [0.25, 0.75, 0.9] {
+            let s = solve_continuous(&h0, &h1, setup(Alternative::Greater, w, true)).unwrap();
+            let expect = 1.0 + (w / (1.0 - w)).ln() / 2.0;
+            match s.cut {
+                ContinuousCut::Above(c) => assert!((c - expect).abs() < 1e-13, "w {w}: {c} vs {expect}"),
+                _ => panic!("wrong cut"),
+            }
+        }
+    }
+
+    /// Two-sided normal: c* solves 2φ(c) = φ(c − Δ) + φ(c + Δ), not Δ/2.
+    #[test]
+    fn two_sided_normal_solves_the_summed_equation() {
+        let h0 = Normal::STANDARD;
+        let h1 = Normal::new(3.0, 1.0).unwrap();
+        let s = solve_continuous(&h0, &h1, setup(Alternative::TwoSided, 0.5, true)).unwrap();
+        let ContinuousCut::Outside { half_width: c, .. } = s.cut else { panic!("wrong cut") };
+        let lhs = 2.0 * h0.pdf(c);
+        let rhs = h1.pdf(c) + h1.pdf(-c);
+        assert!((lhs - rhs).abs() < 1e-14 * lhs, "{c}");
+        assert!(c > 1.5);
+        let g = solve_continuous(&h0, &h1, setup(Alternative::TwoSided, 0.5, false)).unwrap();
+        assert_eq!(g.cut, s.cut);
+    }
+}
