@@ -120,11 +120,8 @@ pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError
             let n = count("data.n", n, 1.0)?;
             let mean = finite("data.mean", mean)?;
             let Effect::Mean { sigma, .. } = design.effect else { return Err(wrong()) };
-            if design.standardised {
-                return Err(DecisionError::Undefined(
-                    "a decision with σ known needs the design in raw units: give theta0, theta1 and sigma instead of d",
-                ));
-            }
+            // A standardised design (d) means θ0 = 0 and σ = 1: the data
+            // are then read in units of σ (DEVELOPERS.md, "Families").
             ((mean - theta0) / (sigma / (n as f64).sqrt()), mean, n, None, Observed::default())
         }
         (Family::MeanT | Family::PairedT, Summary::OneGroup { n, mean, sd: s }) => {
@@ -218,6 +215,8 @@ pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError
             }
         }
     };
+    // Tail sums may round a hair above 1.
+    let p_value = p_value.clamp(0.0, 1.0);
     let outcome = if !at_n.conclusive {
         Outcome::Inconclusive
     } else if in_region {

@@ -294,8 +294,11 @@ impl Design {
                 }
             }
             (Family::TwoProportions, Effect::TwoProportions { p1, p2 }) => {
+                // Planning: the allocation-weighted rate; in a decision the
+                // statistic divides by the observed pooled SE, so the model
+                // uses that same SE (DEVELOPERS.md, "Families").
                 let pbar = (p1 + self.ratio * p2) / (1.0 + self.ratio);
-                let se0 = (pbar * (1.0 - pbar) * (1.0 / m1 + 1.0 / m2)).sqrt();
+                let se0 = obs.se0.unwrap_or_else(|| (pbar * (1.0 - pbar) * (1.0 / m1 + 1.0 / m2)).sqrt());
                 let se1 = (p1 * (1.0 - p1) / m1 + p2 * (1.0 - p2) / m2).sqrt();
                 let mean = delta / se0;
                 Model {
@@ -305,7 +308,7 @@ impl Design {
                     },
                     setup: setup(false),
                     offset: 0.0,
-                    slope: obs.se0.unwrap_or(se0),
+                    slope: se0,
                     statistic: "z",
                     n1,
                     n2: Some(n2v),

@@ -113,8 +113,10 @@ pub struct Setup {
 /// α and β of a continuous rejection region.
 pub fn continuous_errors<C0: Continuous, C1: Continuous>(h0: &C0, h1: &C1, cut: ContinuousCut) -> Errors {
     match cut {
-        ContinuousCut::Above(c) => Errors { alpha: h0.sf(c), beta: h1.cdf(c) },
-        ContinuousCut::Below(c) => Errors { alpha: h0.cdf(c), beta: h1.sf(c) },
+        // Clamped like the two-sided and discrete branches: a tail computed
+        // by quadrature or series may overshoot 1 by rounding.
+        ContinuousCut::Above(c) => Errors { alpha: h0.sf(c).clamp(0.0, 1.0), beta: h1.cdf(c).clamp(0.0, 1.0) },
+        ContinuousCut::Below(c) => Errors { alpha: h0.cdf(c).clamp(0.0, 1.0), beta: h1.sf(c).clamp(0.0, 1.0) },
         ContinuousCut::Outside { centre, half_width } => {
             let (lo, hi) = (centre - half_width, centre + half_width);
             let alpha = h0.cdf(lo) + h0.sf(hi);
@@ -162,10 +164,18 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
                 let rising = c1 > c0;
                 let ga = g(anchor);
                 let direction = if (ga < 0.0) == rising { 1.0 } else { -1.0 };
-                let (lo, hi) = expand(g, anchor, 0.25 * spread, direction, 80)?;
-                let root = brent(g, lo, hi, Tolerance::TIGHT)?;
-                iterations += root.iterations;
-                candidates.push(root.x);
+                // No sign change anywhere means the likelihood ratio never
+                // reaches w/(1 − w) (heavy t tails with a small effect or an
+                // extreme weight): then one of the ends is optimal.
+                match expand(g, anchor, 0.25 * spread, direction, 80) {
+                    Ok((lo, hi)) => {
+                        let root = brent(g, lo, hi, Tolerance::TIGHT)?;
+                        iterations += root.iterations;
+                        candidates.push(root.x);
+                    }
+                    Err(RootError::NotBracketed { .. }) => {}
+                    Err(e) => return Err(e.into()),
+                }
             } else {
                 for x in crossings(g, h0, h1, &mut iterations)? {
                     candidates.push(x);
@@ -282,9 +292,17 @@ pub fn discrete_errors<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, cut: Discre
             let beta = if a > b {
                 0.0
             } else {
-                let below = if a <= 0 { 0.0 } else { at_most(h1, a - 1) };
-                let above = if b == i64::MAX { 0.0 } else { at_least(h1, b + 1) };
-                (1.0 - below - above).max(0.0)
+                // P1(a ≤ X ≤ b) from whichever tail is small, so that a tiny
+                // β keeps its digits.
+                let upto_b = if b == i64::MAX { 1.0 } else { at_most(h1, b) };
+                let below_a = if a <= 0 { 0.0 } else { at_most(h1, a - 1) };
+                if upto_b <= 0.5 {
+                    (upto_b - below_a).max(0.0)
+                } else {
+                    let from_a = if a <= 0 { 1.0 } else { at_least(h1, a) };
+                    let above_b = if b == i64::MAX { 0.0 } else { at_least(h1, b + 1) };
+                    (from_a - above_b).max(0.0)
+                }
             };
             Errors { alpha: alpha.min(1.0), beta }
         }

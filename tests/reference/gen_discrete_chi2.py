@@ -41,6 +41,8 @@ from scipy import stats
 DPS = 45
 mp.dps = DPS
 TAIL_LEVELS = [1e-300, 1e-250, 1e-150, 1e-80, 1e-30, 1e-12, 1e-4, 0.05, 0.3, 0.5]
+# Fewer levels where the exact sums need ~1e5 to 1e6 terms per value.
+BIG_LEVELS = [1e-300, 1e-30, 0.3]
 SMALLEST = 1e-300
 
 
@@ -125,14 +127,14 @@ def pois_tails(m, k):
     return 1 - s, s
 
 
-def discrete_points(dist, top):
+def discrete_points(dist, top, levels=None):
     """Arguments k across the support: both ends, the centre and the
     quantiles of every tail level."""
     ks = {0, 1, 2}
     mean = dist.mean()
     ks.add(int(mean))
     ks.add(int(mean) + 1)
-    for t in TAIL_LEVELS:
+    for t in levels or TAIL_LEVELS:
         for v in (dist.ppf(t), dist.isf(t)):
             if math.isfinite(v) and v >= 0:
                 ks.add(int(v))
@@ -220,10 +222,10 @@ def chi2_lnpdf(df, scale, x):
     return (a - 1) * mp.log(y) - y - mp.loggamma(a) - mp.log(two_s)
 
 
-def chi2_points(df, scale):
+def chi2_points(df, scale, levels=None):
     d = stats.chi2(df, scale=scale)
     xs = set()
-    for t in TAIL_LEVELS:
+    for t in levels or TAIL_LEVELS:
         for v in (d.ppf(t), d.isf(t)):
             if math.isfinite(v) and v > 1e-290:
                 xs.add(float("%.12g" % v))
@@ -300,7 +302,7 @@ def main():
     means = [1e-3, 0.1, 1.0, 3.7, 10.0, 55.5, 1000.0, 1e4, 1e5, 1e6, 1e7, 3e7, 1e9]
     for m in means:
         d = stats.poisson(m)
-        for k in discrete_points(d, None):
+        for k in discrete_points(d, None, BIG_LEVELS if m > 1e8 else None):
             c, s = pois_tails(m, k)
             lp = pois_lnpmf(m, k)
             out["poisson"].append([m, k, keep(mp.exp(lp)), f(lp), keep(c), keep(s)])
@@ -314,7 +316,7 @@ def main():
     for i, df in enumerate(dfs + big_dfs):
         pair = (scales[i % 4], scales[(i + 1) % 4])
         for scale in pair if df not in big_dfs else pair[:1]:
-            for x in chi2_points(df, scale):
+            for x in chi2_points(df, scale, BIG_LEVELS if df in big_dfs else None):
                 qh = float(stats.chi2.sf(x, df, scale=scale))
                 p, q = gamma_pq(mpf(df) / 2, mpf(x) / (2 * mpf(scale)), qh)
                 lp = chi2_lnpdf(df, scale, x)
@@ -343,7 +345,7 @@ def main():
                 if k is not None:
                     out["poisson_quantile"].append([m, t, upper, k])
     print("discrete quantiles done", file=sys.stderr, flush=True)
-    for df, scale in [(0.5, 1.0), (3.0, 0.25), (29.0, 1.3), (1000.0, 4.0), (2e6, 1.0), (1e9, 1.3)]:
+    for df, scale in [(0.5, 1.0), (3.0, 0.25), (29.0, 1.3), (1000.0, 4.0), (2e6, 1.0), (2e7, 1.3)]:
         for t in [1e-280, 1e-20, 1e-3, 0.3, 0.5]:
             for upper in (False, True):
                 x = chi2_quantile_truth(df, scale, t, upper)

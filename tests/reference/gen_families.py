@@ -620,13 +620,14 @@ def sample_size_cont(des):
         return ok
     ny = search_cont(yok, nmin)
     # confirmation below (the conclusive set must be [ny, inf)): every smaller n
-    # up to 400, beyond that a geometric spread of 60 smaller n
-    limit = min(ny, 400)
+    # up to 400 (t families 120), beyond that a geometric spread of 30 smaller n
+    full = 120 if des["family"] in T_FAMS else 400
+    limit = min(ny, full)
     for n in range(nmin, limit):
         if yok(n):
             raise Skip("conclusive set not an interval (n=%d < %d)" % (n, ny))
-    if ny > 400:
-        for n in sorted(set(np.unique(np.geomspace(400, ny - 1, 60).astype(int)))):
+    if ny > full:
+        for n in sorted(set(np.unique(np.geomspace(full, ny - 1, 30).astype(int)))):
             if n < ny and yok(int(n)):
                 raise Skip("conclusive set not an interval")
     if ny > nmin and yok(ny - 1):
@@ -639,7 +640,7 @@ def sample_size_cont(des):
             raise Skip("borderline conventional power")
         return p >= target
     nc = search_cont(cok, nmin)
-    for n in range(nmin, min(nc, 1000)):
+    for n in range(nmin, min(nc, 300 if des["family"] in T_FAMS else 1000)):
         if cok(n):
             raise Skip("conventional power not monotone")
     how, sm, powf = statsmodels_n(des)
@@ -787,7 +788,7 @@ def case_ss(name, des, source_extra="", checks=None, post=None):
         exp = {"n_youden": ny, "n_conventional": nc}
         src = ("n_youden: doubling from the smallest n then bisection, threshold by "
                "scipy.optimize.brentq on scipy.stats densities, every smaller n checked to fail "
-               "(above n=400: a geometric spread of 60 smaller n); n_conventional: " + sc)
+               "(above n=400, t families n=120: a geometric spread of 30 smaller n); n_conventional: " + sc)
     if post:
         post(exp)
     if checks:

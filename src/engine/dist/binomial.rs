@@ -15,7 +15,9 @@
 //! tail is summed and P(X > k) is its complement; for k > np the upper tail
 //! is summed and P(X ≤ k) is its complement. A binomial median lies between
 //! ⌊np⌋ and ⌈np⌉, so each complement is then ≥ ½ and loses nothing. At
-//! k = ⌊np⌋ neither complement need be large, so both tails are summed.
+//! k = ⌊np⌋ the lower tail is summed; the upper tail is its complement when
+//! that is ≥ ¼ (costing at most 3ε relative) and is summed as well
+//! otherwise.
 
 use super::special::{bd0, smallest_true, stirlerr, sum_decreasing};
 use super::{Continuous, Discrete, DistError, Normal, check};
@@ -160,7 +162,8 @@ impl Binomial {
             return (0.0, 1.0);
         }
         // Each complement below is ≥ ½ (see the module notes); at
-        // k = ⌊mean⌋ neither need be, so both tails are summed.
+        // k = ⌊mean⌋ neither need be, so the upper tail is summed too
+        // unless it is ≥ ¼, where the complement costs at most 3ε relative.
         let (kf, m) = (k as f64, self.mean());
         if kf + 1.0 <= m {
             let c = self.lower_sum(k);
@@ -169,7 +172,8 @@ impl Binomial {
             let s = self.upper_sum(k + 1);
             (1.0 - s, s)
         } else {
-            (self.lower_sum(k), self.upper_sum(k + 1))
+            let c = self.lower_sum(k);
+            if c <= 0.75 { (c, 1.0 - c) } else { (c, self.upper_sum(k + 1)) }
         }
     }
 
@@ -298,6 +302,16 @@ mod tests {
                 assert!((0.0..=1.0).contains(&c) && (0.0..=1.0).contains(&s));
             }
         }
+    }
+
+    #[test]
+    fn upper_tail_at_the_floor_of_the_mean_is_not_a_complement() {
+        // k = 0 = ⌊np⌋: P(X > 0) = 1 − q² = p(2 − p) is tiny and must not be
+        // formed as 1 − P(X ≤ 0).
+        let p = 1e-4;
+        let b = Binomial::new(2, p).unwrap();
+        let want = p * (2.0 - p);
+        assert!(((b.sf(0) - want) / want).abs() < 1e-15, "{}", b.sf(0));
     }
 
     #[test]

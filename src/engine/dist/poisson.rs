@@ -10,7 +10,8 @@
 //! k + 1 ≤ λ the lower tail is summed and P(X > k) is its complement; for
 //! k > λ the upper tail is summed and P(X ≤ k) is its complement. A Poisson
 //! median lies in [λ − ln 2, λ + ⅓] (K. P. Choi, Proc. AMS 121, 1994), so
-//! each complement is then ≥ ½; at k = ⌊λ⌋ both tails are summed.
+//! each complement is then ≥ ½. At k = ⌊λ⌋ the lower tail is summed; the
+//! upper tail is its complement when that is ≥ ¼ and is summed otherwise.
 //! Beyond 1e7 the sums would need more than 3e4 terms, and the tails come
 //! from the regularised incomplete gamma function instead:
 //! P(X ≤ k) = Q(k + 1, λ), P(X > k) = P(k + 1, λ), which uses Temme's
@@ -79,7 +80,8 @@ impl Poisson {
             return (q, p);
         }
         // Each complement below is ≥ ½ (see the module notes); at
-        // k = ⌊mean⌋ neither need be, so both tails are summed.
+        // k = ⌊mean⌋ neither need be, so the upper tail is summed too
+        // unless it is ≥ ¼, where the complement costs at most 3ε relative.
         let (kf, m) = (k as f64, self.mean);
         if kf + 1.0 <= m {
             let c = self.lower_sum(k);
@@ -88,7 +90,8 @@ impl Poisson {
             let s = self.upper_sum(k + 1);
             (1.0 - s, s)
         } else {
-            (self.lower_sum(k), self.upper_sum(k + 1))
+            let c = self.lower_sum(k);
+            if c <= 0.75 { (c, 1.0 - c) } else { (c, self.upper_sum(k + 1)) }
         }
     }
 
@@ -195,6 +198,15 @@ mod tests {
                 assert!((0.0..=1.0).contains(&c) && (0.0..=1.0).contains(&s));
             }
         }
+    }
+
+    #[test]
+    fn upper_tail_at_the_floor_of_the_mean_is_not_a_complement() {
+        // k = 0 = ⌊λ⌋: P(X > 0) = 1 − e^(−λ) must not be formed as
+        // 1 − P(X ≤ 0).
+        let d = Poisson::new(1e-3).unwrap();
+        let want = -(-1e-3f64).exp_m1();
+        assert!(((d.sf(0) - want) / want).abs() < 1e-15, "{}", d.sf(0));
     }
 
     #[test]

@@ -1,0 +1,165 @@
+//! Engine benchmarks (criterion). Run with `cargo bench --bench engine`, or
+//! `scripts/bench` for the side-by-side table against SciPy/statsmodels.
+//!
+//! Benchmark names are stable: `scripts/bench` reads
+//! `target/criterion/<group>/<id>/new/estimates.json` for each of them.
+//!
+//! - `nct_cdf/<point>`: one `NoncentralT::cdf` call at a (df, ncp, x) point.
+//! - `solve/<family>`: one threshold solve (the model at n, then c*, α*, β*)
+//!   for a representative one-sided design of each family.
+//! - `solve_two_sided/mean_t`: the same for the two-sided one-sample t.
+//! - `search/mean_t_d0.3`: the sample-size search (Youden n and the
+//!   conventional n) for the one-sample t, d = 0.3, α_max = 0.05,
+//!   β_max = 0.2, alternative greater.
+//!
+//! The designs and points are mirrored in `benches/compare_scipy.py`; keep
+//! the two lists identical. Before measuring, each solve prints one
+//! `TERN_CHECK` line (c*, α*, β*, or n for the search) so that
+//! `scripts/bench` can show that both sides did the same work.
+//!
+//! `std::hint::black_box` is used: it is what criterion 0.8's own (now
+//! deprecated) `criterion::black_box` forwards to.
+
+use criterion::{Criterion, criterion_group, criterion_main};
+use std::hint::black_box;
+use std::time::Duration;
+use tern::engine::design::{Design, DesignSpec, Family};
+use tern::engine::dist::{Continuous, NoncentralT};
+use tern::engine::evaluate::{Cut, solve};
+use tern::engine::sample_size::sample_size;
+use tern::engine::threshold::{Alternative, ContinuousCut, DiscreteCut};
+
+/// The (df, ncp, x) points of `nct_cdf`, with their benchmark ids.
+const NCT_POINTS: [(&str, f64, f64, f64); 3] = [
+    ("df29_ncp1.64_x1.7", 29.0, 1.64, 1.7),
+    ("df200_ncp3_x-1", 200.0, 3.0, -1.0),
+    ("df1e4_ncp5_x4", 1e4, 5.0, 4.0),
+];
+
+const ALPHA_MAX: f64 = 0.05;
+const BETA_MAX: f64 = 0.2;
+
+fn spec(family: Family, alternative: Alternative) -> DesignSpec {
+    DesignSpec {
+        family: Some(family),
+        alternative: Some(alternative),
+        alpha_max: Some(ALPHA_MAX),
+        beta_max: Some(BETA_MAX),
+        ..DesignSpec::default()
+    }
+}
+
+/// A representative design of each family and the n (per group) it is
+/// solved at. Mirrored in compare_scipy.py (`SOLVES`).
+fn solve_cases() -> Vec<(String, Design, u64)> {
+    use Alternative::{Greater, TwoSided};
+    let d = |family, alternative, d: f64| DesignSpec { d: Some(d), ..spec(family, alternative) };
+    let cases: Vec<(&str, DesignSpec, u64)> = vec![
+        ("solve/mean_z", d(Family::MeanZ, Greater, 0.3), 121),
+        ("solve/mean_t", d(Family::MeanT, Greater, 0.3), 120),
+        ("solve/paired_t", d(Family::PairedT, Greater, 0.5), 50),
+        ("solve/two_means_pooled", d(Family::TwoMeansPooled, Greater, 0.5), 100),
+        (
+            "solve/two_means_welch",
+            DesignSpec {
+                theta0: Some(0.0),
+                theta1: Some(0.5),
+                sigma1: Some(1.0),
+                sigma2: Some(1.5),
+                ..spec(Family::TwoMeansWelch, Greater)
+            },
+            100,
+        ),
+        (
+            "solve/proportion_exact",
+            DesignSpec { theta0: Some(0.5), theta1: Some(0.6), ..spec(Family::ProportionExact, Greater) },
+            200,
+        ),
+        (
+            "solve/proportion_normal",
+            DesignSpec { theta0: Some(0.5), theta1: Some(0.6), ..spec(Family::ProportionNormal, Greater) },
+            200,
+        ),
+        (
+            "solve/two_proportions",
+            DesignSpec { p1: Some(0.6), p2: Some(0.5), ..spec(Family::TwoProportions, Greater) },
+            400,
+        ),
+        ("solve_two_sided/mean_t", d(Family::MeanT, TwoSided, 0.3), 120),
+    ];
+    cases
+        .into_iter()
+        .map(|(name, s, n)| {
+            let design = Design::new(&s).unwrap_or_else(|e| panic!("{name}: invalid design: {e}"));
+            (name.to_string(), design, n)
+        })
+        .collect()
+}
+
+/// c* on the statistic's scale (the half-width for a two-sided cut, k for
+/// X ≥ k).
+fn cut_value(cut: &Cut) -> f64 {
+    match *cut {
+        Cut::Continuous(ContinuousCut::Above(c) | ContinuousCut::Below(c)) => c,
+        Cut::Continuous(ContinuousCut::Outside { half_width, .. }) => half_width,
+        Cut::Discrete(DiscreteCut::AtLeast(k) | DiscreteCut::AtMost(k)) => k as f64,
+        Cut::Discrete(DiscreteCut::Outside { half_width, .. }) => half_width,
+    }
+}
+
+fn bench_nct_cdf(c: &mut Criterion) {
+    let mut group = c.benchmark_group("nct_cdf");
+    group.warm_up_time(Duration::from_millis(500)).measurement_time(Duration::from_secs(2)).sample_size(50);
+    for (id, df, ncp, x) in NCT_POINTS {
+        let dist = NoncentralT::new(df, ncp).expect("valid noncentral t");
+        println!("TERN_CHECK\tnct_cdf/{id}\tcdf={:.12e}", dist.cdf(x));
+        group.bench_function(id, |b| b.iter(|| black_box(&dist).cdf(black_box(x))));
+    }
+    group.finish();
+}
+
+fn bench_solve(c: &mut Criterion) {
+    let cases = solve_cases();
+    for group_name in ["solve", "solve_two_sided"] {
+        let mut group = c.benchmark_group(group_name);
+        // Auto sampling switches to flat sampling when one iteration is slow.
+        group.warm_up_time(Duration::from_millis(500)).measurement_time(Duration::from_secs(3)).sample_size(30);
+        for (name, design, n) in cases.iter().filter(|(name, ..)| name.split('/').next() == Some(group_name)) {
+            let model = design.model(*n).unwrap_or_else(|e| panic!("{name}: model at n = {n}: {e}"));
+            let (cut, errors, _) = solve(&model).unwrap_or_else(|e| panic!("{name}: solve: {e}"));
+            println!(
+                "TERN_CHECK\t{name}\tn={n}\tc={:.9}\talpha={:.9}\tbeta={:.9}",
+                cut_value(&cut),
+                errors.alpha,
+                errors.beta
+            );
+            let id = name.split('/').nth(1).expect("group/id");
+            // One solve = the sampling distributions at n, then c*, α*, β*.
+            group.bench_function(id, |b| {
+                b.iter(|| {
+                    let model = black_box(design).model(black_box(*n)).expect("model");
+                    solve(black_box(&model)).expect("solve")
+                })
+            });
+        }
+        group.finish();
+    }
+}
+
+fn bench_search(c: &mut Criterion) {
+    let design = Design::new(&DesignSpec { d: Some(0.3), ..spec(Family::MeanT, Alternative::Greater) }).expect("valid design");
+    let answer = sample_size(&design).expect("search");
+    println!(
+        "TERN_CHECK\tsearch/mean_t_d0.3\tn={}\tconventional_n={}\tsolves={}",
+        answer.youden.map_or(0, |g| g.n1),
+        answer.conventional.map_or(0, |g| g.n1),
+        answer.solves
+    );
+    let mut group = c.benchmark_group("search");
+    group.warm_up_time(Duration::from_millis(500)).measurement_time(Duration::from_secs(5)).sample_size(10);
+    group.bench_function("mean_t_d0.3", |b| b.iter(|| sample_size(black_box(&design)).expect("search")));
+    group.finish();
+}
+
+criterion_group!(benches, bench_nct_cdf, bench_solve, bench_search);
+criterion_main!(benches);
