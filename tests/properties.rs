@@ -490,6 +490,12 @@ proptest! {
         let n2v = if two { Some(n2) } else { None };
         let obs = match (p.family, data) {
             (Family::TwoMeansWelch, Summary::TwoGroups { sd1, sd2, .. }) => Observed { sd1: Some(sd1), sd2: Some(sd2), se0: None },
+            // The decision's model divides by the observed pooled SE, as the
+            // statistic does (DEVELOPERS.md, "Families").
+            (Family::TwoProportions, Summary::TwoProportions { successes1, trials1, successes2, trials2 }) => {
+                let pooled = (successes1 + successes2) / (trials1 + trials2);
+                Observed { se0: Some((pooled * (1.0 - pooled) * (1.0 / trials1 + 1.0 / trials2)).sqrt()), ..Observed::default() }
+            }
             _ => Observed::default(),
         };
         let model = d.model_observed(n1, n2v, &obs).unwrap();

@@ -150,7 +150,11 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         Some(n) => Some(evaluate(design, n)?),
         None => None,
     };
-    let notes = notes(design, youden, conventional, stable_from, balancing_weight, max);
+    let conventional_errors = match conventional {
+        Some(n) => Some(errors_at(design, n, &mut solves)?),
+        None => None,
+    };
+    let notes = notes(design, youden, conventional, stable_from, balancing_weight, max, conventional_errors);
     Ok(SampleSize {
         youden: youden.map(|n| sizes(design, n)),
         searched_up_to: max,
@@ -188,16 +192,17 @@ fn notes(
     stable: Option<u64>,
     w: Option<f64>,
     max: u64,
+    conventional_errors: Option<Errors>,
 ) -> Vec<String> {
     let mut notes = Vec::new();
     match (youden, conventional) {
         (None, _) => notes.push(format!(
             "No sample size up to {max} per group makes this design conclusive: the effect is too small for these limits."
         )),
-        (Some(y), Some(c)) if y > c => {
+        (Some(y), Some(c)) if y > c && design.alpha_max != design.beta_max => {
             let mut s = format!(
                 "The n that makes the design conclusive ({y}) exceeds the conventional n ({c}). The threshold that minimises \
-                 α + β treats both errors alike, so for a symmetric shift α* = β* and both must meet the smaller limit \
+                 α + β treats both errors alike (for a symmetric shift α* = β*), so both must meet the smaller limit \
                  ({}); the conventional test instead spends the limits unequally (α = {}, β = {}).",
                 sig3(design.alpha_max.min(design.beta_max)),
                 sig3(design.alpha_max),
@@ -205,12 +210,24 @@ fn notes(
             );
             if let Some(w) = w {
                 s.push_str(&format!(
-                    " If a false alarm really is costlier than a miss, say so with the cost weight: w = {} reproduces the \
-                     conventional test at n = {c}.",
-                    sig3(w)
+                    " To weigh the errors as those limits do, set the cost weight w = {} (a false alarm weighted {}, a miss {}): \
+                     it reproduces the conventional test at n = {c}.",
+                    sig3(w),
+                    sig3(w),
+                    sig3(1.0 - w)
                 ));
             }
             notes.push(s);
+        }
+        (Some(y), Some(c)) if y > c => {
+            let at = conventional_errors.map_or(String::new(), |e| {
+                format!(" At n = {c} the Youden threshold gives α* = {} and β* = {}.", sig3(e.alpha), sig3(e.beta))
+            });
+            notes.push(format!(
+                "The n that makes the design conclusive ({y}) exceeds the conventional n ({c}) although the limits are equal: \
+                 the threshold of least total error need not put each error exactly at its limit when the sampling \
+                 distributions are not mirror images of each other (noncentral t, binomial).{at}"
+            ));
         }
         _ => {}
     }

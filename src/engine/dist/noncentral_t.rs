@@ -12,9 +12,11 @@
 //! |δ| ≤ 40: pdf, cdf and sf within 1e-10 relative (values down to 1e-280).
 //!
 //! For ν > 1e7 the distribution is replaced, explicitly, by its normal limit
-//! N(δ, 1 + δ²/(2ν)); its absolute error is O(1/ν) (below 1e-7 there), and
-//! relative accuracy in the tails holds only within about ν^¼ standard
-//! deviations of δ.
+//! N(δ, 1 + δ²/(2ν)). Measured against the mixture at ν = 1e7, the absolute
+//! error of cdf and sf is at most 1.6e-8 for δ = 0 and 7.7e-7 for |δ| = 40
+//! (it shrinks like 1/√ν for δ ≠ 0, 1/ν for δ = 0); the relative error
+//! within 4 standard deviations of δ is at most 1.5e-4, and further out the
+//! limit's tails carry no relative accuracy guarantee.
 
 use super::t_integral::{ln_density, ln_lower, solve_tail};
 use super::{Continuous, DistError, check};
@@ -69,13 +71,23 @@ pub(super) fn t_quantile(nu: f64, delta: f64, p: f64, upper: bool) -> Result<f64
         (true, false) => (true, 1.0 - p),
     };
     if tail_p == 0.0 {
-        return Ok(if tail_is_lower { f64::NEG_INFINITY } else { f64::INFINITY });
+        return Ok(if tail_is_lower {
+            f64::NEG_INFINITY
+        } else {
+            f64::INFINITY
+        });
     }
     let scale = t_spread(nu, delta);
     if tail_is_lower {
         solve_tail(|x| ln_lower(x, nu, delta), tail_p.ln(), true, delta, scale)
     } else {
-        solve_tail(|x| ln_lower(-x, nu, -delta), tail_p.ln(), false, delta, scale)
+        solve_tail(
+            |x| ln_lower(-x, nu, -delta),
+            tail_p.ln(),
+            false,
+            delta,
+            scale,
+        )
     }
 }
 
@@ -143,7 +155,12 @@ mod tests {
                 let close = |a: f64, b: f64| (a - b).abs() <= 1e-12 * b.abs();
                 assert!(close(n.cdf(x), s.cdf(x)), "cdf df={df} x={x}");
                 assert!(close(n.sf(x), s.sf(x)), "sf df={df} x={x}");
-                assert!(close(n.pdf(x), s.pdf(x)), "pdf df={df} x={x}: {} {}", n.pdf(x), s.pdf(x));
+                assert!(
+                    close(n.pdf(x), s.pdf(x)),
+                    "pdf df={df} x={x}: {} {}",
+                    n.pdf(x),
+                    s.pdf(x)
+                );
             }
         }
     }
@@ -157,7 +174,10 @@ mod tests {
                 let (l, r) = (a.cdf(x), b.sf(-x));
                 assert!((l - r).abs() <= 1e-14 * r.abs(), "df={df} ncp={ncp} x={x}");
                 let (l, r) = (a.pdf(x), b.pdf(-x));
-                assert!((l - r).abs() <= 1e-13 * r.abs(), "pdf df={df} ncp={ncp} x={x}");
+                assert!(
+                    (l - r).abs() <= 1e-13 * r.abs(),
+                    "pdf df={df} ncp={ncp} x={x}"
+                );
             }
         }
     }
@@ -173,9 +193,19 @@ mod tests {
         assert_eq!(t.sf(f64::INFINITY), 0.0);
         assert_eq!(t.sf(f64::NEG_INFINITY), 1.0);
         assert_eq!(t.pdf(f64::INFINITY), 0.0);
-        for x in [f64::MAX, -f64::MAX, 1e300, -1e-300, f64::MIN_POSITIVE, 5e-324] {
+        for x in [
+            f64::MAX,
+            -f64::MAX,
+            1e300,
+            -1e-300,
+            f64::MIN_POSITIVE,
+            5e-324,
+        ] {
             let (c, s, l) = (t.cdf(x), t.sf(x), t.ln_pdf(x));
-            assert!((0.0..=1.0).contains(&c) && (0.0..=1.0).contains(&s), "x={x}");
+            assert!(
+                (0.0..=1.0).contains(&c) && (0.0..=1.0).contains(&s),
+                "x={x}"
+            );
             assert!(!l.is_nan(), "x={x}");
         }
         for df in [1e-3, 0.5, 1e7, 2e7, 1e300] {

@@ -8,9 +8,11 @@
 //! ch. 28 and 31), which keeps full relative accuracy in both tails for
 //! every ν; the regularised incomplete beta route of most libraries loses it
 //! for large ν. Verified against mpmath (`betainc` at 40 digits) for ν in
-//! [1, 1e6] to 1e-10 relative, values down to 1e-280. For ν > 1e7 the tails
-//! fall back, explicitly, to the normal limit N(0, 1), whose absolute error
-//! is O(1/ν) (below 1e-7 there).
+//! [1, 1e6] to 1e-10 relative, values down to 1e-280. For ν > 1e7 the
+//! density and tails fall back, explicitly, to the normal limit N(0, 1):
+//! measured at ν = 1e7 its absolute error in cdf and sf is at most 1.6e-8
+//! (shrinking like 1/ν) and its relative error within |t| ≤ 4 at most 7e-6;
+//! beyond that the limit's tails carry no relative accuracy guarantee.
 
 use super::noncentral_t::{t_quantile, t_spread};
 use super::t_integral::{NU_LIMIT, ln_lower, ln_mean_s};
@@ -31,7 +33,11 @@ impl StudentT {
     pub fn new(df: f64) -> Result<Self, DistError> {
         let df = check("df", df, df.is_finite() && df > 0.0, "finite and > 0")?;
         // f(0) = Γ((ν+1)/2)/(√(νπ)·Γ(ν/2)) = E[S]·φ(0).
-        let ln_f0 = if df > NU_LIMIT { -LN_SQRT_2PI } else { ln_mean_s(df) - LN_SQRT_2PI };
+        let ln_f0 = if df > NU_LIMIT {
+            -LN_SQRT_2PI
+        } else {
+            ln_mean_s(df) - LN_SQRT_2PI
+        };
         Ok(StudentT { df, ln_f0 })
     }
 
@@ -124,7 +130,7 @@ mod tests {
         }
         let t2 = StudentT::new(2.0).unwrap();
         let x: f64 = -1000.0;
-        let exact = 1.0 / ((2.0 + x * x).sqrt() * ((2.0 + x * x).sqrt() - x)) ;
+        let exact = 1.0 / ((2.0 + x * x).sqrt() * ((2.0 + x * x).sqrt() - x));
         assert!((t2.cdf(x) - exact).abs() <= 1e-12 * exact);
         // symmetry
         assert!((t2.cdf(-3.0) - t2.sf(3.0)).abs() <= 1e-15);
