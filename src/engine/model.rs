@@ -59,6 +59,9 @@ impl Continuous for ContDist {
     fn spread(&self) -> f64 {
         delegate!(self, d => d.spread())
     }
+    fn normal_parameters(&self) -> Option<(f64, f64)> {
+        delegate!(self, d => d.normal_parameters())
+    }
 }
 
 impl Discrete for DiscDist {

@@ -46,8 +46,20 @@ pub enum RootError {
 /// Find x in [lo, hi] with f(x) = 0, given f(lo) and f(hi) of opposite signs
 /// (or one of them exactly 0).
 pub fn brent<F: FnMut(f64) -> f64>(mut f: F, lo: f64, hi: f64, tol: Tolerance) -> Result<Root, RootError> {
+    let (fa, fb) = (f(lo), f(hi));
+    brent_from(f, (lo, fa), (hi, fb), tol)
+}
+
+/// [`brent`] when f is already known at both ends (saves two evaluations
+/// of an expensive f).
+pub fn brent_from<F: FnMut(f64) -> f64>(
+    mut f: F,
+    (lo, f_lo): (f64, f64),
+    (hi, f_hi): (f64, f64),
+    tol: Tolerance,
+) -> Result<Root, RootError> {
     let (mut a, mut b) = (lo, hi);
-    let (mut fa, mut fb) = (f(a), f(b));
+    let (mut fa, mut fb) = (f_lo, f_hi);
     if fa.is_nan() {
         return Err(RootError::NotFinite { x: a });
     }

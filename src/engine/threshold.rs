@@ -10,7 +10,7 @@
 //! follows the likelihood ratio.
 
 use super::dist::{Continuous, DistError, Discrete};
-use super::root::{RootError, Tolerance, brent, expand};
+use super::root::{RootError, Tolerance, brent, brent_from, expand};
 use serde::{Deserialize, Serialize};
 
 /// Which values of θ the alternative hypothesis covers.
@@ -164,17 +164,26 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
                 let rising = c1 > c0;
                 let ga = g(anchor);
                 let direction = if (ga < 0.0) == rising { 1.0 } else { -1.0 };
+                // First try a tight bracket around a Newton guess: near the
+                // crossing g is close to the normal-shift line whose slope is
+                // (c1 − c0)/(s0·s1).
+                let slope = (c1 - c0) / (h0.spread() * h1.spread());
+                let near = tight_bracket(&g, anchor, ga, -ga / slope);
                 // No sign change anywhere means the likelihood ratio never
                 // reaches w/(1 − w) (heavy t tails with a small effect or an
                 // extreme weight): then one of the ends is optimal.
-                match expand(g, anchor, 0.25 * spread, direction, 80) {
-                    Ok((lo, hi)) => {
-                        let root = brent(g, lo, hi, Tolerance::TIGHT)?;
-                        iterations += root.iterations;
-                        candidates.push(root.x);
-                    }
-                    Err(RootError::NotBracketed { .. }) => {}
-                    Err(e) => return Err(e.into()),
+                let bracket = match near {
+                    Some(b) => Some(b),
+                    None => match expand(g, anchor, 0.25 * spread, direction, 80) {
+                        Ok((lo, hi)) => Some(((lo, g(lo)), (hi, g(hi)))),
+                        Err(RootError::NotBracketed { .. }) => None,
+                        Err(e) => return Err(e.into()),
+                    },
+                };
+                if let Some((lo, hi)) = bracket {
+                    let root = brent_from(g, lo, hi, Tolerance::TIGHT)?;
+                    iterations += root.iterations;
+                    candidates.push(root.x);
                 }
             } else {
                 for x in crossings(g, h0, h1, &mut iterations)? {
@@ -200,17 +209,23 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
             let single = if setup.single_crossing {
                 let ga = g(anchor);
                 let direction = if ga < 0.0 { 1.0 } else { -1.0 };
-                // Moving left the search must stop at c = 0.
-                match expand(g, anchor, 0.25 * spread, direction, 80) {
-                    Ok((lo, hi)) if lo >= 0.0 => Some((lo, hi)),
-                    Ok(_) | Err(_) => None,
+                // Near the crossing the far-side terms are negligible and g
+                // follows the one-sided normal-shift line (see above).
+                let slope = (h1.centre() - t0).abs() / (h0.spread() * h1.spread());
+                match tight_bracket(&g, anchor, ga, -ga / slope) {
+                    Some(b) if b.0.0 >= 0.0 => Some(b),
+                    // Moving left the search must stop at c = 0.
+                    _ => match expand(g, anchor, 0.25 * spread, direction, 80) {
+                        Ok((lo, hi)) if lo >= 0.0 => Some(((lo, g(lo)), (hi, g(hi)))),
+                        Ok(_) | Err(_) => None,
+                    },
                 }
             } else {
                 None
             };
             match single {
                 Some((lo, hi)) => {
-                    let root = brent(g, lo, hi, Tolerance::TIGHT)?;
+                    let root = brent_from(g, lo, hi, Tolerance::TIGHT)?;
                     iterations += root.iterations;
                     candidates.push(root.x);
                 }
@@ -236,6 +251,28 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
     }
 }
 
+/// Two points 3 % either side of anchor + step; returns them (with g) when
+/// g changes sign between them, or the anchor and the nearer point when the
+/// sign changes there; `None` otherwise (the caller widens the search).
+fn tight_bracket<G: Fn(f64) -> f64>(g: &G, anchor: f64, ga: f64, step: f64) -> Option<((f64, f64), (f64, f64))> {
+    if !step.is_finite() || step == 0.0 || ga == 0.0 {
+        return None;
+    }
+    let (x1, x2) = (anchor + 0.97 * step, anchor + 1.03 * step);
+    let (g1, g2) = (g(x1), g(x2));
+    if !(g1.is_finite() && g2.is_finite()) {
+        return None;
+    }
+    let ordered = |a: (f64, f64), b: (f64, f64)| if a.0 < b.0 { (a, b) } else { (b, a) };
+    if (g1 > 0.0) != (g2 > 0.0) {
+        Some(ordered((x1, g1), (x2, g2)))
+    } else if (ga > 0.0) != (g1 > 0.0) {
+        Some(ordered((anchor, ga), (x1, g1)))
+    } else {
+        None
+    }
+}
+
 /// Every sign change of g over the central range of both distributions,
 /// polished by Brent's method. The scan only brackets; the roots are exact.
 fn crossings<G: Fn(f64) -> f64, C0: Continuous, C1: Continuous>(
@@ -244,6 +281,9 @@ fn crossings<G: Fn(f64) -> f64, C0: Continuous, C1: Continuous>(
     h1: &C1,
     iterations: &mut usize,
 ) -> Result<Vec<f64>, ThresholdError> {
+    if let (Some(a), Some(b)) = (h0.normal_parameters(), h1.normal_parameters()) {
+        return Ok(normal_crossings(a, b, &g));
+    }
     let lo = (h0.centre() - 40.0 * h0.spread()).min(h1.centre() - 40.0 * h1.spread());
     let hi = (h0.centre() + 40.0 * h0.spread()).max(h1.centre() + 40.0 * h1.spread());
     let grid = 800;
@@ -260,6 +300,44 @@ fn crossings<G: Fn(f64) -> f64, C0: Continuous, C1: Continuous>(
         prev = (x, gx);
     }
     Ok(roots)
+}
+
+/// Where the weighted log-densities of two normals cross: the roots of the
+/// quadratic (c − m0)²/(2s0²) − (c − m1)²/(2s1²) + ln((1−w)s0/(w s1)) = 0,
+/// taken in the cancellation-free form, then polished by one Newton step on
+/// `g` itself (its derivative is (c − m0)/s0² − (c − m1)/s1²).
+fn normal_crossings<G: Fn(f64) -> f64>((m0, s0): (f64, f64), (m1, s1): (f64, f64), g: &G) -> Vec<f64> {
+    let (v0, v1) = (s0 * s0, s1 * s1);
+    let a = 0.5 / v0 - 0.5 / v1;
+    let b = m1 / v1 - m0 / v0;
+    // g(c) = a·c² + b·c + C, so C = g(0).
+    let c = g(0.0);
+    let mut roots = Vec::with_capacity(2);
+    if a.abs() <= 1e-14 * (0.5 / v0).max(0.5 / v1) {
+        if b != 0.0 {
+            roots.push(-c / b);
+        }
+    } else {
+        let disc = b * b - 4.0 * a * c;
+        if disc >= 0.0 {
+            let q = -0.5 * (b + b.signum() * disc.sqrt());
+            if q != 0.0 {
+                roots.push(q / a);
+                roots.push(c / q);
+            } else {
+                roots.push(0.0);
+            }
+        }
+    }
+    for r in roots.iter_mut() {
+        let slope = (*r - m0) / v0 - (*r - m1) / v1;
+        let step = g(*r) / slope;
+        if step.is_finite() {
+            *r -= step;
+        }
+    }
+    roots.retain(|r| r.is_finite());
+    roots
 }
 
 /// The candidate with the smallest weighted error; ties (within

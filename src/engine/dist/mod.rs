@@ -79,6 +79,11 @@ pub trait Continuous {
     /// A spread (standard deviation or a comparable scale) used to bracket
     /// searches; always finite and > 0.
     fn spread(&self) -> f64;
+    /// (mean, sd) when the distribution is normal, so that solvers can use
+    /// closed forms; `None` otherwise.
+    fn normal_parameters(&self) -> Option<(f64, f64)> {
+        None
+    }
 }
 
 /// A distribution on the non-negative integers 0, 1, 2, ... (with an upper

@@ -131,6 +131,10 @@ impl Continuous for Normal {
     fn spread(&self) -> f64 {
         self.sd
     }
+
+    fn normal_parameters(&self) -> Option<(f64, f64)> {
+        Some((self.mean, self.sd))
+    }
 }
 
 #[cfg(test)]
