@@ -5,3 +5,8 @@
 //! natively. The web layer (compiled only for `wasm32`) is a thin shell over it.
 
 pub mod engine;
+
+/// The page: DOM, events and canvas charts over the engine. Compiled only
+/// for WebAssembly, so a native build never sees a web type.
+#[cfg(target_arch = "wasm32")]
+pub mod web;

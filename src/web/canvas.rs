@@ -1,0 +1,117 @@
+//! Canvas plumbing: size each canvas for its CSS box and the screen's
+//! devicePixelRatio (crisp on high-DPI screens), draw a chart on it with
+//! plotters-canvas, and put the same numbers in the chart's table.
+
+use super::charts::prep::Views;
+use super::charts::{self, DrawResult, Look, by_n, prob, sampling, short, table, total_error, tradeoff};
+use super::dom;
+use plotters::coord::Shift;
+use plotters::prelude::*;
+use plotters_canvas::CanvasBackend;
+
+const CHARTS: [&str; 4] = ["chart-sampling", "chart-by-n", "chart-tradeoff", "chart-total"];
+
+/// Size a canvas; returns it with the pixel scale, or `None` when it is
+/// not laid out (hidden or missing).
+fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
+    let canvas = dom::canvas(id)?;
+    let css_w = canvas.client_width() as f64;
+    if css_w < 10.0 {
+        return None;
+    }
+    let dpr = dom::window().map_or(1.0, |w| w.device_pixel_ratio());
+    let look = Look::new(dpr);
+    // Wide charts get a flatter shape; narrow ones stay readable.
+    let css_h = (css_w * 0.62).clamp(260.0, 400.0).round();
+    let _ = canvas.set_attribute("style", &format!("height:{css_h}px"));
+    let (w, h) = ((css_w * look.scale).round() as u32, (css_h * look.scale).round() as u32);
+    if canvas.width() != w {
+        canvas.set_width(w);
+    }
+    if canvas.height() != h {
+        canvas.set_height(h);
+    }
+    Some((canvas, look))
+}
+
+/// A chart drawn on the canvas backend.
+type Painter<'a> = &'a dyn Fn(&DrawingArea<CanvasBackend, Shift>, &Look) -> DrawResult<CanvasBackend>;
+
+fn paint(id: &str, draw: Painter<'_>) {
+    let Some((canvas, look)) = prepare(id) else { return };
+    let Some(backend) = CanvasBackend::with_canvas_object(canvas) else { return };
+    let root = backend.into_drawing_area();
+    if let Err(e) = draw(&root, &look).and_then(|_| root.present()) {
+        web_sys::console::warn_1(&format!("chart {id} could not be drawn: {e}").into());
+    }
+}
+
+pub fn draw_all(v: &Views) {
+    // Each chart's drawing time in ms, kept on the canvas for the browser test.
+    let timed = |id: &str, draw: Painter<'_>| {
+        let t0 = dom::now_ms();
+        paint(id, draw);
+        dom::set_attr(id, "data-draw-ms", Some(&format!("{:.2}", dom::now_ms() - t0)));
+    };
+    timed("chart-sampling", &|a, l| sampling::draw(a, &v.sampling, l));
+    timed("chart-by-n", &|a, l| by_n::draw(a, &v.by_n, l));
+    timed("chart-tradeoff", &|a, l| tradeoff::draw(a, &v.tradeoff, l));
+    timed("chart-total", &|a, l| total_error::draw(a, &v.total, l));
+    dom::set_html("table-sampling", &table::sampling(&v.sampling));
+    dom::set_html("table-by-n", &table::by_n(&v.by_n));
+    dom::set_html("table-tradeoff", &table::tradeoff(&v.tradeoff));
+    dom::set_html("table-total", &table::total_error(&v.total));
+    let s = &v.sampling;
+    let cuts = s.cut_text.join(" and ");
+    label(
+        "chart-sampling",
+        &format!(
+            "Two sampling curves, if H0 is true and if the effect is θ1; {}; hatched false-alarm area α* = {}, dotted miss area β* = {}{}.",
+            cuts,
+            prob(s.alpha),
+            prob(s.beta),
+            s.observed.map_or(String::new(), |o| format!("; observed value {}", short(o)))
+        ),
+    );
+    label(
+        "chart-by-n",
+        &format!(
+            "α* and β* against the sample size, with the limits {} and {}{}.",
+            prob(v.by_n.alpha_max),
+            prob(v.by_n.beta_max),
+            v.by_n.youden_n.map_or(String::new(), |n| format!("; conclusive from n = {}", short(n)))
+        ),
+    );
+    label(
+        "chart-tradeoff",
+        &format!(
+            "Power against false-alarm rate as the threshold slides; the chosen threshold gives α* = {} and power {}.",
+            prob(v.tradeoff.youden.0),
+            prob(v.tradeoff.youden.1)
+        ),
+    );
+    label(
+        "chart-total",
+        &format!("Total error α + β against the threshold; smallest {} at {}.", prob(v.total.minimum.1), short(v.total.minimum.0)),
+    );
+    dom::set_text("cap-n", &v.tradeoff.n_text);
+}
+
+fn label(id: &str, text: &str) {
+    dom::set_attr(id, "aria-label", Some(text));
+}
+
+/// Blank every chart (the design is incomplete), with a word saying why.
+pub fn clear_all() {
+    for id in CHARTS {
+        paint(id, &|a, l| {
+            a.fill(&WHITE)?;
+            a.draw(&Text::new("Complete the design to see this chart.", (l.px(16.0), l.px(20.0)), l.text_in(14.0, charts::MUTED)))
+        });
+        label(id, "Empty: the design is incomplete.");
+    }
+    for t in ["table-sampling", "table-by-n", "table-tradeoff", "table-total"] {
+        dom::set_html(t, "");
+    }
+    dom::set_text("cap-n", "—");
+}

@@ -1,0 +1,119 @@
+//! Small, failure-tolerant DOM helpers. A missing element is not a reason to
+//! stop the page: every helper that looks an element up does nothing (or
+//! returns `None`) when it is absent, so a stale id costs one blank spot,
+//! never a panic.
+
+use wasm_bindgen::JsCast;
+use web_sys::{Document, Element, HtmlCanvasElement, HtmlElement, HtmlInputElement, Window};
+
+pub fn window() -> Option<Window> {
+    web_sys::window()
+}
+
+pub fn document() -> Option<Document> {
+    window()?.document()
+}
+
+pub fn by_id(id: &str) -> Option<Element> {
+    document()?.get_element_by_id(id)
+}
+
+pub fn input(id: &str) -> Option<HtmlInputElement> {
+    by_id(id)?.dyn_into::<HtmlInputElement>().ok()
+}
+
+pub fn canvas(id: &str) -> Option<HtmlCanvasElement> {
+    by_id(id)?.dyn_into::<HtmlCanvasElement>().ok()
+}
+
+/// The trimmed text of an input (or textarea through `value`), empty when
+/// the element is missing.
+pub fn value(id: &str) -> String {
+    if let Some(i) = input(id) {
+        return i.value();
+    }
+    by_id(id).and_then(|e| js_sys::Reflect::get(&e, &"value".into()).ok()).and_then(|v| v.as_string()).unwrap_or_default()
+}
+
+pub fn set_value(id: &str, v: &str) {
+    if let Some(i) = input(id) {
+        i.set_value(v);
+    } else if let Some(e) = by_id(id) {
+        let _ = js_sys::Reflect::set(&e, &"value".into(), &v.into());
+    }
+}
+
+pub fn set_text(id: &str, text: &str) {
+    if let Some(e) = by_id(id) {
+        e.set_text_content(Some(text));
+    }
+}
+
+/// Replace an element's children with trusted markup built by this crate
+/// (every piece of user or engine text in it went through [`escape`]).
+pub fn set_html(id: &str, html: &str) {
+    if let Some(e) = by_id(id) {
+        e.set_inner_html(html);
+    }
+}
+
+pub fn set_hidden(id: &str, hidden: bool) {
+    if let Some(e) = by_id(id).and_then(|e| e.dyn_into::<HtmlElement>().ok()) {
+        e.set_hidden(hidden);
+    }
+}
+
+pub fn set_attr(id: &str, name: &str, v: Option<&str>) {
+    if let Some(e) = by_id(id) {
+        let _ = match v {
+            Some(v) => e.set_attribute(name, v),
+            None => e.remove_attribute(name),
+        };
+    }
+}
+
+pub fn set_class(id: &str, class: &str, on: bool) {
+    if let Some(e) = by_id(id) {
+        let _ = e.class_list().toggle_with_force(class, on);
+    }
+}
+
+/// The value of the checked radio button of a group, if any.
+pub fn checked_radio(name: &str) -> Option<String> {
+    let doc = document()?;
+    let el = doc.query_selector(&format!("input[name=\"{name}\"]:checked")).ok()??;
+    el.dyn_into::<HtmlInputElement>().ok().map(|i| i.value())
+}
+
+/// Check the radio button of `name` whose value is `value`; `None` clears
+/// the group.
+pub fn check_radio(name: &str, value: Option<&str>) {
+    let Some(doc) = document() else { return };
+    let Ok(list) = doc.query_selector_all(&format!("input[name=\"{name}\"]")) else { return };
+    for i in 0..list.length() {
+        if let Some(r) = list.item(i).and_then(|n| n.dyn_into::<HtmlInputElement>().ok()) {
+            r.set_checked(Some(r.value().as_str()) == value);
+        }
+    }
+}
+
+/// Milliseconds since the page started (for the redraw timing).
+pub fn now_ms() -> f64 {
+    window().and_then(|w| w.performance()).map_or(0.0, |p| p.now())
+}
+
+/// Escape text for inclusion in markup.
+pub fn escape(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    for c in text.chars() {
+        match c {
+            '&' => out.push_str("&amp;"),
+            '<' => out.push_str("&lt;"),
+            '>' => out.push_str("&gt;"),
+            '"' => out.push_str("&quot;"),
+            '\'' => out.push_str("&#39;"),
+            c => out.push(c),
+        }
+    }
+    out
+}

@@ -1,0 +1,279 @@
+//! The page: reads the design from the DOM, asks the engine, shows the
+//! answer as text and as four canvas charts, live on every input.
+//!
+//! Architecture invariant: this module owns every side effect of the page
+//! (DOM, events, canvas) and none of the statistics. It never holds a
+//! borrow of its state across a call into the engine or a chart, so that
+//! if a panic ever trapped one computation the next input still works; the
+//! panic hook tells the user so in the page.
+
+mod canvas;
+pub mod charts;
+mod demo;
+mod dom;
+mod form;
+mod view;
+
+use crate::engine::request::{self, Answer, RequestError};
+use charts::prep::{self, Views};
+use serde::Serialize;
+use serde_json::{Map, Value};
+use std::cell::RefCell;
+use std::rc::Rc;
+use wasm_bindgen::JsCast;
+use wasm_bindgen::prelude::*;
+
+/// What the charts show now, kept so that a resize can redraw without
+/// recomputing.
+#[derive(Default)]
+struct State {
+    views: Option<Rc<Views>>,
+    frame_pending: bool,
+    redraw: Option<js_sys::Function>,
+}
+
+thread_local! {
+    static STATE: RefCell<State> = RefCell::new(State::default());
+}
+
+/// Entry point, called once by trunk's bootstrap.
+#[wasm_bindgen(start)]
+pub fn start() {
+    install_panic_hook();
+    if let Err(e) = setup() {
+        web_sys::console::error_1(&e);
+        dom::set_text("page-alert", "The page could not start its controls. Reload the page to try again.");
+        dom::set_hidden("page-alert", false);
+    }
+}
+
+fn install_panic_hook() {
+    static ONCE: std::sync::Once = std::sync::Once::new();
+    ONCE.call_once(|| {
+        std::panic::set_hook(Box::new(|info| {
+            console_error_panic_hook::hook(info);
+            // Only DOM calls here: never the page's state.
+            dom::set_text(
+                "page-alert",
+                "Something went wrong while computing this design. Everything you typed is kept; change any value to try again.",
+            );
+            dom::set_hidden("page-alert", false);
+        }));
+    });
+}
+
+fn listen(target: &web_sys::EventTarget, event: &str, f: impl FnMut(web_sys::Event) + 'static) -> Result<(), JsValue> {
+    let cb = Closure::<dyn FnMut(web_sys::Event)>::new(f);
+    target.add_event_listener_with_callback(event, cb.as_ref().unchecked_ref())?;
+    // The listeners live as long as the page.
+    cb.forget();
+    Ok(())
+}
+
+fn setup() -> Result<(), JsValue> {
+    let window = dom::window().ok_or("no window")?;
+    let form_el = dom::by_id("tern-form").ok_or("the form #tern-form is missing")?;
+    listen(&form_el, "input", |_| recompute())?;
+    listen(&form_el, "submit", |e| e.prevent_default())?;
+    if let Some(b) = dom::by_id("new-design") {
+        listen(&b, "click", |_| {
+            demo::clear();
+            recompute();
+            if let Some(e) = dom::by_id("step-design").and_then(|e| e.dyn_into::<web_sys::HtmlElement>().ok()) {
+                let _ = e.focus();
+            }
+        })?;
+    }
+    if let Some(b) = dom::by_id("load-demo") {
+        listen(&b, "click", |_| {
+            demo::load_demo();
+            recompute();
+        })?;
+    }
+    let redraw = Closure::<dyn FnMut()>::new(|| {
+        STATE.with(|s| s.borrow_mut().frame_pending = false);
+        redraw_charts();
+    });
+    let redraw_fn: js_sys::Function = redraw.as_ref().unchecked_ref::<js_sys::Function>().clone();
+    redraw.forget();
+    STATE.with(|s| s.borrow_mut().redraw = Some(redraw_fn));
+    listen(&window, "resize", |_| schedule_redraw())?;
+    demo::load_demo();
+    recompute();
+    dom::set_attr("app", "data-ready", Some("true"));
+    // Milliseconds from navigation start to the demo drawn (read by the
+    // browser test).
+    dom::set_attr("app", "data-ready-ms", Some(&format!("{:.1}", dom::now_ms())));
+    Ok(())
+}
+
+fn schedule_redraw() {
+    let f = STATE.with(|s| {
+        let mut s = s.borrow_mut();
+        if s.frame_pending {
+            None
+        } else {
+            s.frame_pending = true;
+            s.redraw.clone()
+        }
+    });
+    if let (Some(f), Some(w)) = (f, dom::window())
+        && w.request_animation_frame(&f).is_err()
+    {
+        STATE.with(|s| s.borrow_mut().frame_pending = false);
+    }
+}
+
+fn ask(req: &Map<String, Value>) -> Result<Answer, RequestError> {
+    let r = request::parse_value(&Value::Object(req.clone()))?;
+    request::answer(&r)
+}
+
+/// Read the form, ask the engine, show everything. Runs on every input.
+fn recompute() {
+    let t0 = dom::now_ms();
+    dom::set_hidden("page-alert", true);
+    let reading = form::read();
+    form::show_fields(reading.family, &reading.unit);
+    dom::set_text("general-msg", "");
+    let mut messages = reading.messages.clone();
+    if !reading.design_ready() {
+        form::show_messages(&messages);
+        view::show_incomplete(&reading.still_needed);
+        set_views(None);
+        canvas::clear_all();
+        finish(t0);
+        return;
+    }
+    let mut req = reading.request.clone();
+    let typed_n = req.get("n").cloned();
+    // With data, the charts follow the data's n; a typed n is checked apart.
+    if reading.data_complete {
+        req.remove("n");
+    }
+    // When the engine refuses the summary data or the typed n, say so next
+    // to the field and still show the design without them.
+    let mut result = ask(&req);
+    for _ in 0..2 {
+        let Err(err) = &result else { break };
+        let m = form::engine_message(reading.family, err);
+        let part = form::part(&m);
+        messages.push(m);
+        match part {
+            Some(form::Part::Data) => {
+                req.remove("data");
+            }
+            Some(form::Part::Size) => {
+                req.remove("n");
+            }
+            _ => break,
+        }
+        result = ask(&req);
+    }
+    let answer = match result {
+        Ok(a) => a,
+        Err(err) => {
+            let m = form::engine_message(reading.family, &err);
+            if !messages.contains(&m) {
+                messages.push(m);
+            }
+            // A message with no field of its own goes to the general line.
+            for m in messages.iter().filter(|m| m.field.is_empty() || !form::is_field(&m.field)) {
+                dom::set_text("general-msg", &m.text);
+            }
+            form::show_messages(&messages);
+            view::show_incomplete(&[]);
+            set_views(None);
+            canvas::clear_all();
+            finish(t0);
+            return;
+        }
+    };
+    form::show_messages(&messages);
+    for m in messages.iter().filter(|m| m.field.is_empty() || !form::is_field(&m.field)) {
+        dom::set_text("general-msg", &m.text);
+    }
+    view::show_answer(&answer, &reading.unit);
+    if answer.decision.is_none() && reading.data_started {
+        view::show_no_decision("Complete or correct the summary figures marked above to decide.");
+    }
+    // "Check a sample size you already have", when the charts follow the data.
+    let check = match (&typed_n, reading.data_complete, req.contains_key("n")) {
+        (Some(n), true, _) => {
+            let mut r2: Map<String, Value> = req.clone();
+            r2.remove("data");
+            r2.insert("curves".into(), Value::Bool(false));
+            r2.insert("n".into(), n.clone());
+            match ask(&r2) {
+                Ok(a) => Some(a),
+                Err(err) => {
+                    let m = form::engine_message(reading.family, &err);
+                    messages.push(m);
+                    form::show_messages(&messages);
+                    None
+                }
+            }
+        }
+        (Some(_), false, true) => Some(answer.clone()),
+        _ => None,
+    };
+    view::show_check(check.as_ref());
+    let views = match (&answer.at_n, &answer.curves) {
+        (Some(at), Some(curves)) => {
+            let observed = answer.decision.as_ref().map(|d| d.statistic);
+            let youden_n = answer.sample_size.youden.map(|g| g.n1);
+            Some(Rc::new(prep::views(&answer.design, at, curves, youden_n, observed, &reading.unit)))
+        }
+        _ => None,
+    };
+    set_views(views);
+    let t1 = dom::now_ms();
+    redraw_charts();
+    dom::set_attr("app", "data-engine-ms", Some(&format!("{:.2}", t1 - t0)));
+    dom::set_attr("app", "data-draw-ms", Some(&format!("{:.2}", dom::now_ms() - t1)));
+    finish(t0);
+}
+
+fn set_views(v: Option<Rc<Views>>) {
+    STATE.with(|s| s.borrow_mut().views = v);
+}
+
+fn redraw_charts() {
+    let views = STATE.with(|s| s.borrow().views.clone());
+    match views {
+        Some(v) => canvas::draw_all(&v),
+        None => canvas::clear_all(),
+    }
+}
+
+/// Record how long the update took (read by the browser test).
+fn finish(t0: f64) {
+    let ms = dom::now_ms() - t0;
+    dom::set_attr("app", "data-last-update-ms", Some(&format!("{ms:.2}")));
+    let count = dom::by_id("app").and_then(|e| e.get_attribute("data-updates")).and_then(|s| s.parse::<u64>().ok()).unwrap_or(0);
+    dom::set_attr("app", "data-updates", Some(&(count + 1).to_string()));
+}
+
+/// The engine's JSON contract, as the command line's `tern run`: one JSON
+/// document in, one out.
+#[wasm_bindgen]
+pub fn tern_run(request: &str) -> Result<String, JsValue> {
+    request::run(request).map_err(|e| JsValue::from_str(&e.to_string()))
+}
+
+/// The same contract with a JavaScript object in and out (plain objects and
+/// arrays, as JSON would give).
+#[wasm_bindgen]
+pub fn tern_answer(request: JsValue) -> Result<JsValue, JsValue> {
+    let value: Value = serde_wasm_bindgen::from_value(request).map_err(|e| JsValue::from_str(&e.to_string()))?;
+    let req = request::parse_value(&value).map_err(|e| JsValue::from_str(&e.to_string()))?;
+    let ans = request::answer(&req).map_err(|e| JsValue::from_str(&e.to_string()))?;
+    ans.serialize(&serde_wasm_bindgen::Serializer::json_compatible()).map_err(|e| JsValue::from_str(&e.to_string()))
+}
+
+/// Panic on purpose, so that the browser test can check that the page
+/// survives one and keeps computing. Never called by the page itself.
+#[wasm_bindgen]
+pub fn tern_selftest_panic() {
+    panic!("deliberate panic from tern_selftest_panic (browser test)");
+}
