@@ -27,6 +27,7 @@
 //! the f64 range of the integrand (down to about 1e-300) keep full
 //! relative accuracy and logarithms stay finite.
 
+use crate::engine::root::{Tolerance, brent_from};
 use super::DistError;
 use super::normal::{std_cdf, std_pdf, std_sf};
 
@@ -586,80 +587,11 @@ pub(super) fn solve_tail(
     if gb == 0.0 {
         return Ok(b);
     }
-    brent(g, a, ga, b, gb, 1e-300 + 1e-15 * scale)
+    // The crate's Brent (engine::root), 4 ulp relative plus an absolute
+    // floor scaled to the distribution.
+    let tol = Tolerance { abs: 1e-300 + 1e-15 * scale, rel: 4.0 * f64::EPSILON, max_iterations: 300 };
+    brent_from(g, (a, ga), (b, gb), tol)
+        .map(|r| r.x)
+        .map_err(|_| DistError::DidNotConverge { what: "quantile search", iterations: 300 })
 }
 
-/// Brent's zero finder on a bracket with g(a)·g(b) < 0.
-fn brent(
-    g: impl Fn(f64) -> f64,
-    mut a: f64,
-    mut fa: f64,
-    mut b: f64,
-    mut fb: f64,
-    abs_tol: f64,
-) -> Result<f64, DistError> {
-    let mut c = a;
-    let mut fc = fa;
-    let mut d = b - a;
-    let mut e = d;
-    for _ in 0..300 {
-        if (fb > 0.0) == (fc > 0.0) {
-            c = a;
-            fc = fa;
-            d = b - a;
-            e = d;
-        }
-        if fc.abs() < fb.abs() {
-            a = b;
-            b = c;
-            c = a;
-            fa = fb;
-            fb = fc;
-            fc = fa;
-        }
-        let tol = 4.0 * f64::EPSILON * b.abs() + abs_tol;
-        let m = 0.5 * (c - b);
-        if m.abs() <= tol || fb == 0.0 {
-            return Ok(b);
-        }
-        if e.abs() < tol || fa.abs() <= fb.abs() {
-            d = m;
-            e = m;
-        } else {
-            let s = fb / fa;
-            let (mut p, mut q);
-            if a == c {
-                p = 2.0 * m * s;
-                q = 1.0 - s;
-            } else {
-                let qa = fa / fc;
-                let r = fb / fc;
-                p = s * (2.0 * m * qa * (qa - r) - (b - a) * (r - 1.0));
-                q = (qa - 1.0) * (r - 1.0) * (s - 1.0);
-            }
-            if p > 0.0 {
-                q = -q;
-            } else {
-                p = -p;
-            }
-            if 2.0 * p < (3.0 * m * q - (tol * q).abs()).min((e * q).abs()) {
-                e = d;
-                d = p / q;
-            } else {
-                d = m;
-                e = m;
-            }
-        }
-        a = b;
-        fa = fb;
-        b += if d.abs() > tol { d } else { tol.copysign(m) };
-        fb = g(b);
-        if fb.is_nan() {
-            break;
-        }
-    }
-    Err(DistError::DidNotConverge {
-        what: "quantile search",
-        iterations: 300,
-    })
-}
