@@ -48,10 +48,9 @@ pub fn discrete_level<D0: Discrete, D1: Discrete>(
         }
         Alternative::TwoSided => {
             let support = h0.support_max();
-            // Counts outside [first, top] carry H0 mass below 1e-300: they
+            // Counts outside [first, top] carry negligible H0 mass: they
             // cannot move α across any level a user can state.
-            let top = h0.quantile_upper(1e-300)?.min(support);
-            let first = h0.quantile(1e-300)?;
+            let (first, top) = super::threshold::mass_window(h0);
             let mut distances: Vec<f64> = (first..=top).map(|x| (x as f64 - centre).abs()).collect();
             distances.sort_by(f64::total_cmp);
             distances.dedup_by(|a, b| (*a - *b).abs() <= 1e-9 * (1.0 + centre.abs()));

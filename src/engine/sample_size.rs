@@ -8,7 +8,7 @@
 //! to a stated bound stays conclusive.
 
 use super::design::{Design, N_MAX};
-use super::dist::Continuous;
+use super::dist::{Continuous, Discrete};
 use super::evaluate::{EvaluateError, Evaluation, evaluate, sig3, solve, within};
 use super::conventional::{continuous_level, discrete_level};
 use super::model::Sampling;
@@ -116,6 +116,48 @@ where
     Ok(None)
 }
 
+/// Power of the randomized most powerful (Neyman–Pearson) test at exactly
+/// `level`, one-sided toward θ1, for a count.
+///
+/// Why it bounds the scans (Neyman–Pearson lemma; common practice, no
+/// source): every test of the same data with α ≤ level, the Youden region
+/// and the conventional region of either sidedness included, has power at
+/// most this; and this power never falls as n grows (the test at n + 1 can
+/// ignore one observation). So the smallest n where it reaches 1 − β_max is
+/// a lower bound for both searched sizes, found by bisection.
+fn randomized_power<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, upward: bool, level: f64) -> Result<f64, EvaluateError> {
+    Ok(if upward {
+        // Reject X > j fully, X = j with probability γ.
+        let j = h0.quantile_upper(level)?;
+        let gamma = ((level - h0.sf(j)) / h0.pmf(j)).clamp(0.0, 1.0);
+        h1.sf(j) + if gamma.is_finite() { gamma * h1.pmf(j) } else { 0.0 }
+    } else {
+        // Reject X < j fully, X = j with probability γ.
+        let j = h0.quantile(level)?;
+        let below0 = if j == 0 { 0.0 } else { h0.cdf(j - 1) };
+        let below1 = if j == 0 { 0.0 } else { h1.cdf(j - 1) };
+        let gamma = ((level - below0) / h0.pmf(j)).clamp(0.0, 1.0);
+        below1 + if gamma.is_finite() { gamma * h1.pmf(j) } else { 0.0 }
+    })
+}
+
+/// The smallest n (minus a margin of 2 for rounding) at which the
+/// randomized most powerful test reaches power 1 − β_max; see
+/// [`randomized_power`].
+fn randomized_bound(design: &Design, lo: u64, max: u64) -> Result<Option<u64>, EvaluateError> {
+    let (theta0, theta1) = design.effect.thetas();
+    let upward = theta1 > theta0;
+    let target = 1.0 - design.beta_max;
+    let ok = |n: u64| -> Result<bool, EvaluateError> {
+        let m = design.model(n)?;
+        match &m.sampling {
+            Sampling::Discrete { h0, h1 } => Ok(randomized_power(h0, h1, upward, design.alpha_max)? >= target),
+            Sampling::Continuous { .. } => Ok(true),
+        }
+    };
+    Ok(smallest_monotone(lo, max, ok)?.map(|n| n.saturating_sub(2).max(lo)))
+}
+
 /// Find the Youden and the conventional sample sizes.
 pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     let mut solves = 0usize;
@@ -124,7 +166,10 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     // Two groups: n2 = ⌈ratio·n1⌉ must stay within N_MAX too.
     let max = if discrete { N_MAX_DISCRETE } else { N_MAX }.min(design.n_max());
     let mut ok = |n: u64| -> Result<bool, EvaluateError> { Ok(within(design, &errors_at(design, n, &mut solves)?)) };
-    let youden = if discrete { smallest_scan(lo, max, &mut ok)? } else { smallest_monotone(lo, max, &mut ok)? };
+    // Counts: no n below the randomized Neyman–Pearson bound can be
+    // conclusive or reach the conventional power, so the scans start there.
+    let scan_from = if discrete { randomized_bound(design, lo, max)?.unwrap_or(max) } else { lo };
+    let youden = if discrete { smallest_scan(scan_from, max, &mut ok)? } else { smallest_monotone(lo, max, &mut ok)? };
     let (mut stable_from, mut checked_to) = (None, None);
     if discrete {
         if let Some(first) = youden {
@@ -141,7 +186,7 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     }
     let target = 1.0 - design.beta_max;
     let conv_ok = |n: u64| -> Result<bool, EvaluateError> { Ok(conventional_power(design, n)? >= target) };
-    let conventional = if discrete { smallest_scan(lo, max, conv_ok)? } else { smallest_monotone(lo, max, conv_ok)? };
+    let conventional = if discrete { smallest_scan(scan_from, max, conv_ok)? } else { smallest_monotone(lo, max, conv_ok)? };
     let balancing_weight = match conventional {
         Some(n) if !discrete => balancing_weight(design, n)?,
         _ => None,

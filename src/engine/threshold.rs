@@ -448,10 +448,38 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
 }
 
 /// The last count worth looking at: beyond it both distributions have
-/// negligible mass (upper tail below 1e-300, or the support's end).
+/// negligible mass.
 fn tail_end<D: Discrete>(d: &D) -> Result<u64, ThresholdError> {
-    let q = d.quantile_upper(1e-300)?;
-    Ok(q.min(d.support_max()))
+    Ok(mass_window(d).1)
+}
+
+/// The counts [first, last] outside which the mass is below e^−745 (the
+/// smallest f64) times the mass at the mode, found by bisection on the
+/// unimodal log-mass: O(log n) evaluations instead of a tail search.
+pub(crate) fn mass_window<D: Discrete>(d: &D) -> (u64, u64) {
+    let support = d.support_max();
+    let mode = (d.centre().max(0.0).floor() as u64).min(support);
+    let cutoff = d.ln_pmf(mode) - 745.0;
+    let keep = |k: u64| d.ln_pmf(k) >= cutoff;
+    let first = first_true(0, mode, keep).unwrap_or(mode);
+    // Upper end: the support's end, or doubling outward for unbounded laws.
+    let mut hi = support;
+    if support == u64::MAX {
+        let mut step = 1u64;
+        hi = mode.saturating_add(step);
+        for _ in 0..64 {
+            if !keep(hi) {
+                break;
+            }
+            step = step.saturating_mul(2);
+            hi = mode.saturating_add(step);
+        }
+    }
+    let last = match first_true(mode, hi, |k| !keep(k)) {
+        Some(k) => k.saturating_sub(1).max(mode),
+        None => hi,
+    };
+    (first, last)
 }
 
 /// Smallest k in [lo, hi] with `p(k)` true, for a predicate that is false
@@ -510,7 +538,7 @@ fn solve_discrete_two_sided<D0: Discrete, D1: Discrete>(
 ) -> Result<DiscreteSolution, ThresholdError> {
     // Counts outside [first, top] carry mass below 1e-300 under both.
     let support = h0.support_max();
-    let first = h0.quantile(1e-300)?.min(h1.quantile(1e-300)?);
+    let first = mass_window(h0).0.min(mass_window(h1).0);
     let mut points: Vec<(f64, u64)> = (first..=top).map(|x| ((x as f64 - m0).abs(), x)).collect();
     points.sort_by(|a, b| a.0.total_cmp(&b.0));
     // Group equal distances: x = m0 ± d share one, up to rounding of m0.
