@@ -53,6 +53,7 @@ const FIELDS: &[Field] = &[
     Field { name: "ratio", kind: Kind::Number, part: Part::Design },
     Field { name: "alpha_max", kind: Kind::Rate, part: Part::Design },
     Field { name: "beta_max", kind: Kind::Rate, part: Part::Design },
+    Field { name: "weight", kind: Kind::Rate, part: Part::Design },
     Field { name: "n", kind: Kind::Whole, part: Part::Size },
     Field { name: "data.n", kind: Kind::Whole, part: Part::Data },
     Field { name: "data.mean", kind: Kind::Number, part: Part::Data },
@@ -132,7 +133,7 @@ fn data_fields(f: Family) -> &'static [&'static str] {
     }
 }
 
-const OPTIONAL: [&str; 2] = ["ratio", "n"];
+const OPTIONAL: [&str; 3] = ["ratio", "n", "weight"];
 
 /// Show the fields of `family` (all hidden but the limits when none is
 /// chosen) and give them the family's plain labels.
@@ -142,7 +143,7 @@ pub fn show_fields(family: Option<Family>, unit: &str) {
         None => Vec::new(),
     };
     for field in all_fields() {
-        let always = matches!(field.name, "alpha_max" | "beta_max" | "n");
+        let always = matches!(field.name, "alpha_max" | "beta_max" | "weight" | "n");
         dom::set_hidden(&wrap_id(field.name), !(always || visible.contains(&field.name)));
     }
     let u = if unit.trim().is_empty() { String::new() } else { format!(" ({})", unit.trim()) };
@@ -328,7 +329,7 @@ pub fn read() -> Reading {
             });
         }
     }
-    let mut wanted: Vec<&'static str> = vec!["alpha_max", "beta_max", "n"];
+    let mut wanted: Vec<&'static str> = vec!["alpha_max", "beta_max", "weight", "n"];
     if let Some(f) = family {
         wanted.extend(design_fields(f));
     }

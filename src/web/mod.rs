@@ -84,6 +84,15 @@ fn setup() -> Result<(), JsValue> {
             }
         })?;
     }
+    if let Some(b) = dom::by_id("use-balancing-weight") {
+        listen(&b, "click", |_| {
+            let w = dom::by_id("use-balancing-weight").and_then(|e| e.get_attribute("data-weight"));
+            if let Some(w) = w {
+                dom::set_value(&form::input_id("weight"), &w);
+                recompute();
+            }
+        })?;
+    }
     if let Some(b) = dom::by_id("load-demo") {
         listen(&b, "click", |_| {
             demo::load_demo();

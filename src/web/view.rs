@@ -77,6 +77,7 @@ pub fn show_incomplete(still_needed: &[String]) {
     dom::set_attr("size-card", "data-state", Some("waiting"));
     show_no_decision("The decision appears here once the design is complete and your summary figures are entered.");
     dom::set_text("check-result", "");
+    dom::set_hidden("use-balancing-weight", true);
 }
 
 pub fn show_no_decision(text: &str) {
@@ -96,7 +97,8 @@ pub fn show_answer(ans: &Answer, unit: &str) {
             dom::set_text(
                 "size-detail",
                 &format!(
-                    "This is the smallest sample that makes the design conclusive. At it, the threshold that minimises α + β gives a false-alarm rate α* = {} (your limit {}) and a miss rate β* = {} (your limit {}); {}.",
+                    "This is the smallest sample that makes the design conclusive. At it, the threshold that minimises {} gives a false-alarm rate α* = {} (your limit {}) and a miss rate β* = {} (your limit {}); {}.",
+                    objective(ans.design.weight),
                     prob(at.alpha),
                     prob(ans.design.alpha_max),
                     prob(at.beta),
@@ -127,6 +129,17 @@ pub fn show_answer(ans: &Answer, unit: &str) {
         None => String::new(),
     };
     dom::set_text("size-conventional", &conv);
+    // The cost weight that would reproduce the conventional test, as a
+    // one-click suggestion (the button's click handler reads data-weight).
+    match ss.balancing_weight {
+        Some(w) if w.is_finite() && w > 0.0 && w < 1.0 => {
+            let shown = format!("{w:.3}");
+            dom::set_attr("use-balancing-weight", "data-weight", Some(&shown));
+            dom::set_text("use-balancing-weight", &format!("Use w = {shown}: the weight that reproduces the conventional test"));
+            dom::set_hidden("use-balancing-weight", false);
+        }
+        _ => dom::set_hidden("use-balancing-weight", true),
+    }
     let mut notes: Vec<String> = ss.notes.clone();
     if let (Some(st), Some(to)) = (&ss.stable_from, ss.checked_to) {
         notes.push(format!(
@@ -169,6 +182,15 @@ pub fn show_answer(ans: &Answer, unit: &str) {
             dom::set_html("decide-table", &format!("<table class=\"facts\"><tbody>{body}</tbody></table>"));
         }
         None => show_no_decision("Enter your summary figures above to decide."),
+    }
+}
+
+/// What the threshold minimises: α + β in Youden's case, else the weighted sum.
+fn objective(w: f64) -> String {
+    if w == 0.5 {
+        "α + β".into()
+    } else {
+        format!("{}·α + {}·β", short(w), short(1.0 - w))
     }
 }
 

@@ -11,17 +11,11 @@
 //
 // Usage: node tests/browser/smoke.mjs   (after scripts/build-page)
 
-import { spawn } from 'node:child_process';
 import { mkdirSync, readdirSync, readFileSync, existsSync } from 'node:fs';
-import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import { chromium } from 'playwright-core';
+import { root, dist, artifacts, startServer, stopServer, launch, text, type } from './lib.mjs';
 
-const here = dirname(fileURLToPath(import.meta.url));
-const root = resolve(here, '..', '..');
-const dist = process.env.TERN_DIST ? resolve(process.env.TERN_DIST) : join(root, 'dist');
-const artifacts = join(root, 'tests', 'artifacts');
 mkdirSync(artifacts, { recursive: true });
 
 let passed = 0;
@@ -34,33 +28,6 @@ function check(name, ok, detail = '') {
     failed += 1;
     console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`);
   }
-}
-
-function startServer() {
-  return new Promise((res, rej) => {
-    const child = spawn(process.execPath, [join(root, 'scripts', 'static-server.mjs'), dist, '127.0.0.1', '0'], {
-      stdio: ['ignore', 'pipe', 'inherit'],
-    });
-    const timer = setTimeout(() => rej(new Error('static server did not start within 10 s')), 10000);
-    child.on('error', rej);
-    child.stdout.setEncoding('utf8');
-    child.stdout.on('data', (text) => {
-      const m = text.match(/listening (http:\/\/\S+)/);
-      if (m) {
-        clearTimeout(timer);
-        res({ child, url: m[1] });
-      }
-    });
-  });
-}
-
-function stopServer(child) {
-  return new Promise((res) => {
-    if (child.exitCode !== null) return res();
-    child.once('exit', () => res());
-    child.kill('SIGTERM');
-    setTimeout(() => { if (child.exitCode === null) child.kill('SIGKILL'); }, 3000).unref();
-  });
 }
 
 // Fraction of a canvas's pixels that are not white, and a checksum.
@@ -78,16 +45,6 @@ async function canvasInfo(page, id) {
     }
     return { width: c.width, height: c.height, cssWidth: c.clientWidth, dpr: window.devicePixelRatio, ink: ink / (data.length / 4), sum };
   }, id);
-}
-
-const updates = (page) => page.evaluate(() => Number(document.getElementById('app').dataset.updates || 0));
-const text = (page, sel) => page.locator(sel).innerText();
-
-// Type into a field and wait until the page has recomputed.
-async function type(page, selector, value) {
-  const before = await updates(page);
-  await page.fill(selector, value);
-  await page.waitForFunction((n) => Number(document.getElementById('app').dataset.updates || 0) > n, before, { timeout: 5000 });
 }
 
 // A full-page screenshot. The caution bar sticks to the bottom of the
@@ -116,10 +73,7 @@ async function main() {
   const wasm = readFileSync(join(dist, wasmFile));
   const { child, url } = await startServer();
   console.log(`server pid ${child.pid} at ${url}`);
-  const browser = await chromium.launch({
-    executablePath: '/usr/bin/chromium',
-    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  });
+  const browser = await launch();
   try {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 2 });
     const page = await context.newPage();

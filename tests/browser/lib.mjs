@@ -1,0 +1,65 @@
+// Helpers shared by the browser tests (smoke.mjs, parity.mjs): the static
+// server child process (its PID held and stopped exactly), the chromium
+// launch flags (no outside connections), and typing that waits for the
+// page to recompute.
+
+import { spawn } from 'node:child_process';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium } from 'playwright-core';
+
+const here = dirname(fileURLToPath(import.meta.url));
+export const root = resolve(here, '..', '..');
+export const dist = process.env.TERN_DIST ? resolve(process.env.TERN_DIST) : join(root, 'dist');
+export const artifacts = join(root, 'tests', 'artifacts');
+
+export function startServer() {
+  return new Promise((res, rej) => {
+    const child = spawn(process.execPath, [join(root, 'scripts', 'static-server.mjs'), dist, '127.0.0.1', '0'], {
+      stdio: ['ignore', 'pipe', 'inherit'],
+    });
+    const timer = setTimeout(() => rej(new Error('static server did not start within 10 s')), 10000);
+    child.on('error', rej);
+    child.stdout.setEncoding('utf8');
+    child.stdout.on('data', (text) => {
+      const m = text.match(/listening (http:\/\/\S+)/);
+      if (m) {
+        clearTimeout(timer);
+        res({ child, url: m[1] });
+      }
+    });
+  });
+}
+
+export function stopServer(child) {
+  return new Promise((res) => {
+    if (child.exitCode !== null) return res();
+    child.once('exit', () => res());
+    child.kill('SIGTERM');
+    setTimeout(() => { if (child.exitCode === null) child.kill('SIGKILL'); }, 3000).unref();
+  });
+}
+
+export function launch() {
+  return chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export const updates = (page) => page.evaluate(() => Number(document.getElementById('app').dataset.updates || 0));
+export const text = (page, sel) => page.locator(sel).innerText();
+
+// Type into a field and wait until the page has recomputed.
+export async function type(page, selector, value) {
+  const before = await updates(page);
+  await page.fill(selector, value);
+  await page.waitForFunction((n) => Number(document.getElementById('app').dataset.updates || 0) > n, before, { timeout: 5000 });
+}
+
+// Run an action (a click) and wait until the page has recomputed.
+export async function act(page, action) {
+  const before = await updates(page);
+  await action();
+  await page.waitForFunction((n) => Number(document.getElementById('app').dataset.updates || 0) > n, before, { timeout: 5000 });
+}
