@@ -35,9 +35,9 @@ fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
 }
 
 /// A chart drawn on the canvas backend.
-type Painter<'a> = &'a dyn Fn(&DrawingArea<CanvasBackend, Shift>, &Look) -> DrawResult<CanvasBackend>;
+pub(super) type Painter<'a> = &'a dyn Fn(&DrawingArea<CanvasBackend, Shift>, &Look) -> DrawResult<CanvasBackend>;
 
-fn paint(id: &str, draw: Painter<'_>) {
+pub(super) fn paint(id: &str, draw: Painter<'_>) {
     let Some((canvas, look)) = prepare(id) else { return };
     let Some(backend) = CanvasBackend::with_canvas_object(canvas) else { return };
     let root = backend.into_drawing_area();

@@ -117,3 +117,61 @@ pub fn escape(text: &str) -> String {
     }
     out
 }
+
+// Building elements from text that is not ours (cell text, column names,
+// file names). Everything below sets `textContent` or attributes, never
+// markup, so a header such as `<img src=x onerror=alert(1)>` stays text.
+
+/// A new element with `text` as its only content (`None` when the document
+/// is missing).
+pub fn element(tag: &str, text: &str) -> Option<Element> {
+    let e = document()?.create_element(tag).ok()?;
+    if !text.is_empty() {
+        e.set_text_content(Some(text));
+    }
+    Some(e)
+}
+
+/// Append a child element holding `text`; returns the child.
+pub fn add(parent: &Element, tag: &str, text: &str) -> Option<Element> {
+    let e = element(tag, text)?;
+    parent.append_child(&e).ok()?;
+    Some(e)
+}
+
+/// Replace the children of `id` with `child` (or nothing).
+pub fn replace(id: &str, child: Option<&Element>) {
+    if let Some(e) = by_id(id) {
+        e.set_text_content(None);
+        if let Some(c) = child {
+            let _ = e.append_child(c);
+        }
+    }
+}
+
+/// A table whose every cell is text: a caption, column heads and rows;
+/// the first cell of a row is its row head when `row_heads` is true.
+pub fn text_table(caption: &str, head: &[&str], rows: &[Vec<String>], row_heads: bool) -> Option<Element> {
+    let table = element("table", "")?;
+    if !caption.is_empty() {
+        add(&table, "caption", caption)?;
+    }
+    if !head.is_empty() {
+        let tr = add(&add(&table, "thead", "")?, "tr", "")?;
+        for h in head {
+            add(&tr, "th", h)?.set_attribute("scope", "col").ok()?;
+        }
+    }
+    let body = add(&table, "tbody", "")?;
+    for r in rows {
+        let tr = add(&body, "tr", "")?;
+        for (i, c) in r.iter().enumerate() {
+            if i == 0 && row_heads {
+                add(&tr, "th", c)?.set_attribute("scope", "row").ok()?;
+            } else {
+                add(&tr, "td", c)?;
+            }
+        }
+    }
+    Some(table)
+}

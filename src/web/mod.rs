@@ -9,6 +9,7 @@
 
 mod canvas;
 pub mod charts;
+mod datafile;
 mod demo;
 mod dom;
 mod form;
@@ -107,6 +108,7 @@ fn setup() -> Result<(), JsValue> {
     redraw.forget();
     STATE.with(|s| s.borrow_mut().redraw = Some(redraw_fn));
     listen(&window, "resize", |_| schedule_redraw())?;
+    datafile::setup()?;
     demo::load_demo();
     recompute();
     dom::set_attr("app", "data-ready", Some("true"));
@@ -142,6 +144,8 @@ fn ask(req: &Map<String, Value>) -> Result<Answer, RequestError> {
 fn recompute() {
     let t0 = dom::now_ms();
     dom::set_hidden("page-alert", true);
+    // The data file's figures follow the family before the form is read.
+    datafile::sync(dom::checked_radio("family").and_then(|id| crate::engine::design::Family::from_id(&id)));
     let reading = form::read();
     form::show_fields(reading.family, &reading.unit);
     dom::set_text("general-msg", "");

@@ -13,7 +13,9 @@
 //! stay distinct under the common colour-vision deficiencies.
 
 pub mod by_n;
+pub mod histogram;
 pub mod prep;
+pub mod quantile;
 pub mod sampling;
 pub mod table;
 pub mod total_error;

@@ -1,0 +1,213 @@
+//! Which columns answer the question: the roles a family needs (the
+//! measurement; two paired columns; a group column and its two levels; an
+//! outcome and the level that counts as a success), sensible first choices,
+//! and the engine's [`Mapping`] built from what the user picked.
+//!
+//! Choices are kept by column *name* and level text, so that reading the
+//! file again (another delimiter, decimal mark, missing-value list) keeps
+//! them when the columns are still there.
+
+use crate::engine::design::Family;
+use crate::engine::table::{ColumnKind, Mapping, Table};
+
+/// The shape of the mapping a family needs.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Shape {
+    One,
+    Paired,
+    TwoGroups,
+    Binary,
+    TwoGroupsBinary,
+}
+
+pub fn shape(f: Family) -> Shape {
+    match f {
+        Family::MeanZ | Family::MeanT => Shape::One,
+        Family::PairedT => Shape::Paired,
+        Family::TwoMeansPooled | Family::TwoMeansWelch => Shape::TwoGroups,
+        Family::ProportionExact | Family::ProportionNormal => Shape::Binary,
+        Family::TwoProportions => Shape::TwoGroupsBinary,
+    }
+}
+
+/// A role in the mapping: its radio-group name and its plain question.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Role {
+    Value,
+    First,
+    Second,
+    Group,
+    Level1,
+    Level2,
+    Outcome,
+    Success,
+}
+
+impl Role {
+    pub fn key(self) -> &'static str {
+        match self {
+            Role::Value => "value",
+            Role::First => "first",
+            Role::Second => "second",
+            Role::Group => "group",
+            Role::Level1 => "level1",
+            Role::Level2 => "level2",
+            Role::Outcome => "outcome",
+            Role::Success => "success",
+        }
+    }
+    pub fn from_key(k: &str) -> Option<Role> {
+        [Role::Value, Role::First, Role::Second, Role::Group, Role::Level1, Role::Level2, Role::Outcome, Role::Success]
+            .into_iter()
+            .find(|r| r.key() == k)
+    }
+    pub fn question(self) -> &'static str {
+        match self {
+            Role::Value => "Which column holds the measurements?",
+            Role::First => "First measurement of each pair (the difference is first − second)",
+            Role::Second => "Second measurement of each pair",
+            Role::Group => "Which column says the group?",
+            Role::Level1 => "Group 1 is",
+            Role::Level2 => "Group 2 is",
+            Role::Outcome => "Which column holds the outcome?",
+            Role::Success => "Which value counts as a success?",
+        }
+    }
+}
+
+/// The roles of a shape, in the order the page asks them.
+pub fn roles(s: Shape) -> &'static [Role] {
+    match s {
+        Shape::One => &[Role::Value],
+        Shape::Paired => &[Role::First, Role::Second],
+        Shape::TwoGroups => &[Role::Value, Role::Group, Role::Level1, Role::Level2],
+        Shape::Binary => &[Role::Outcome, Role::Success],
+        Shape::TwoGroupsBinary => &[Role::Outcome, Role::Success, Role::Group, Role::Level1, Role::Level2],
+    }
+}
+
+/// What the user picked (column names, level texts), role by role.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Choice {
+    pub picks: Vec<(Role, String)>,
+}
+
+impl Choice {
+    pub fn get(&self, r: Role) -> Option<&str> {
+        self.picks.iter().find(|(k, _)| *k == r).map(|(_, v)| v.as_str())
+    }
+    pub fn set(&mut self, r: Role, v: String) {
+        self.picks.retain(|(k, _)| *k != r);
+        self.picks.push((r, v));
+    }
+}
+
+fn column_index(t: &Table, name: &str) -> Option<usize> {
+    t.columns.iter().position(|c| c.name == name)
+}
+
+pub fn levels(t: &Table, column: Option<&str>) -> Vec<String> {
+    column.and_then(|c| column_index(t, c)).map_or_else(Vec::new, |i| t.columns[i].levels.iter().map(|l| l.value.clone()).collect())
+}
+
+/// The columns a role may use, by index.
+pub fn candidates(t: &Table, r: Role, choice: &Choice) -> Vec<String> {
+    match r {
+        Role::Value | Role::First | Role::Second => {
+            t.columns.iter().filter(|c| c.kind == ColumnKind::Numeric).map(|c| c.name.clone()).collect()
+        }
+        Role::Group | Role::Outcome => t.columns.iter().filter(|c| c.levels.len() >= 2).map(|c| c.name.clone()).collect(),
+        Role::Level1 | Role::Level2 => levels(t, choice.get(Role::Group)),
+        Role::Success => levels(t, choice.get(Role::Outcome)),
+    }
+}
+
+/// Does a level read like a success ("yes", "true", "1", ...)?
+fn success_like(s: &str) -> bool {
+    matches!(s.trim().to_lowercase().as_str(), "yes" | "y" | "true" | "1" | "success" | "positive" | "pass" | "detected" | "ja" | "oui" | "sí" | "si")
+}
+
+/// Keep what still fits the table, and fill every unanswered role with an
+/// obvious first choice (the measurement column whose name contains the
+/// design's unit, else the last numeric column; a group column with exactly
+/// two levels, in the order they first appear; a yes-like success).
+pub fn complete(t: &Table, s: Shape, old: &Choice, unit: &str) -> Choice {
+    let mut c = Choice::default();
+    for &r in roles(s) {
+        let cands = candidates(t, r, &c);
+        if let Some(v) = old.get(r).filter(|v| cands.iter().any(|x| x == v)) {
+            c.set(r, v.to_string());
+            continue;
+        }
+        let taken: Vec<String> = c.picks.iter().map(|(_, v)| v.clone()).collect();
+        let free: Vec<&String> = cands.iter().filter(|x| !taken.contains(x)).collect();
+        let pick = match r {
+            Role::Value => {
+                let u = unit.trim().to_lowercase();
+                free.iter().find(|x| !u.is_empty() && x.to_lowercase().contains(&u)).or(free.last()).map(|x| x.to_string())
+            }
+            Role::First | Role::Second => free.first().map(|x| x.to_string()),
+            Role::Group | Role::Outcome => {
+                let two = |x: &&&String| column_index(t, x).is_some_and(|i| t.columns[i].levels.len() == 2);
+                let yes_like = |x: &&&String| levels(t, Some(x.as_str())).iter().any(|l| success_like(l));
+                let first = if r == Role::Outcome { free.iter().find(|x| two(x) && yes_like(x)) } else { None };
+                first.or_else(|| free.iter().find(|x| two(x) && !(r == Role::Group && yes_like(x)))).or_else(|| free.iter().find(two)).map(|x| x.to_string())
+            }
+            Role::Level1 => free.first().map(|x| x.to_string()),
+            Role::Level2 => free.first().map(|x| x.to_string()),
+            Role::Success => free.iter().find(|x| success_like(x)).or(free.first()).map(|x| x.to_string()),
+        };
+        if let Some(p) = pick {
+            c.set(r, p);
+        }
+    }
+    c
+}
+
+/// The engine's mapping, or the first unanswered question.
+pub fn to_mapping(t: &Table, s: Shape, c: &Choice) -> Result<Mapping, &'static str> {
+    let col = |r: Role| c.get(r).and_then(|n| column_index(t, n)).ok_or(r.question());
+    let text = |r: Role| c.get(r).map(str::to_string).ok_or(r.question());
+    Ok(match s {
+        Shape::One => Mapping::OneColumn { column: col(Role::Value)? },
+        Shape::Paired => Mapping::Paired { first: col(Role::First)?, second: col(Role::Second)? },
+        Shape::TwoGroups => {
+            Mapping::TwoGroups { value: col(Role::Value)?, group: col(Role::Group)?, level1: text(Role::Level1)?, level2: text(Role::Level2)? }
+        }
+        Shape::Binary => Mapping::Binary { column: col(Role::Outcome)?, success: text(Role::Success)? },
+        Shape::TwoGroupsBinary => Mapping::TwoGroupsBinary {
+            outcome: col(Role::Outcome)?,
+            success: text(Role::Success)?,
+            group: col(Role::Group)?,
+            level1: text(Role::Level1)?,
+            level2: text(Role::Level2)?,
+        },
+    })
+}
+
+/// The choice in words, for the note beside the filled figures.
+pub fn describe(s: Shape, c: &Choice) -> String {
+    let g = |r: Role| c.get(r).unwrap_or("—").to_string();
+    match s {
+        Shape::One => format!("measurements: {}", g(Role::Value)),
+        Shape::Paired => format!("differences {} − {}", g(Role::First), g(Role::Second)),
+        Shape::TwoGroups => format!(
+            "measurements: {}; group 1: {} = {}; group 2: {} = {}",
+            g(Role::Value),
+            g(Role::Group),
+            g(Role::Level1),
+            g(Role::Group),
+            g(Role::Level2)
+        ),
+        Shape::Binary => format!("outcome: {} = {}", g(Role::Outcome), g(Role::Success)),
+        Shape::TwoGroupsBinary => format!(
+            "outcome: {} = {}; group 1: {} = {}; group 2: {} = {}",
+            g(Role::Outcome),
+            g(Role::Success),
+            g(Role::Group),
+            g(Role::Level1),
+            g(Role::Group),
+            g(Role::Level2)
+        ),
+    }
+}

@@ -1,0 +1,210 @@
+// Browser test of deciding from a data file (step 3, "From a data file"), in
+// Debian's headless chromium driven by playwright-core, on the built page
+// (dist/) served by its own static server (PID held, stopped at the end).
+//
+// Checks: the example data file loads with one click and decides (figures
+// filled into the summary fields, marked, undoable); pasted CSV text; a
+// dropped file (a DataTransfer dispatched as a drop event); a chosen file
+// (setInputFiles); a file with problems lists row, column and value and
+// leaving those rows out works; headers and cells with HTML or script show
+// as text and run nothing (no dialog, no injected element); a binary file
+// named .csv gives a message and the page still computes; a decimal-comma
+// file read with the override; no console errors, no request off this
+// machine. Screenshots of the data section under tests/artifacts/.
+//
+// Usage: node tests/browser/data.mjs   (after scripts/build-page)
+
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { root, dist, artifacts, startServer, stopServer, launch, text, act } from './lib.mjs';
+
+mkdirSync(artifacts, { recursive: true });
+
+let passed = 0;
+let failed = 0;
+function check(name, ok, detail = '') {
+  if (ok) { passed += 1; console.log(`ok   ${name}`); } else { failed += 1; console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`); }
+}
+
+const loads = (page) => page.evaluate(() => Number(document.getElementById('app').dataset.fileLoads || 0));
+
+// Run an action that reads a data file and wait until the page has read it.
+async function loaded(page, action) {
+  const before = await loads(page);
+  await action();
+  await page.waitForFunction((n) => Number(document.getElementById('app').dataset.fileLoads || 0) > n, before, { timeout: 20000 });
+  return page.evaluate(() => document.getElementById('app').dataset.fileState);
+}
+
+const fieldValue = (page, name) => page.inputValue(`#f-data-${name}`);
+
+// Drop a file on the drop zone as a browser would.
+async function drop(page, name, content, type = 'text/csv') {
+  return loaded(page, () => page.evaluate(({ name, content, type }) => {
+    const dt = new DataTransfer();
+    dt.items.add(new File([content], name, { type }));
+    const zone = document.getElementById('drop-zone');
+    zone.dispatchEvent(new DragEvent('dragover', { dataTransfer: dt, bubbles: true, cancelable: true }));
+    zone.dispatchEvent(new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true }));
+  }, { name, content, type }));
+}
+
+async function paste(page, content) {
+  await page.evaluate(() => { document.getElementById('data-paste-box').open = true; });
+  await page.fill('#data-paste', content);
+  return loaded(page, () => page.click('#data-paste-read'));
+}
+
+async function choose(page, name, buffer, mimeType = 'text/csv') {
+  return loaded(page, () => page.setInputFiles('#data-file', { name, mimeType, buffer }));
+}
+
+async function shot(page, name) {
+  await page.addStyleTag({ content: '.caution { position: static !important; }' }).then(async (tag) => {
+    await page.locator('#step-decide').screenshot({ path: join(artifacts, name) });
+    await tag.evaluate((el) => el.remove());
+  });
+}
+
+async function main() {
+  if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/index.html is missing: run scripts/build-page first');
+  const { child, url } = await startServer();
+  console.log(`server pid ${child.pid} at ${url}`);
+  const browser = await launch();
+  try {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 1 });
+    const page = await context.newPage();
+    const errors = [];
+    const offsite = [];
+    const dialogs = [];
+    page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+    page.on('pageerror', (e) => errors.push(String(e)));
+    page.on('dialog', async (d) => { dialogs.push(d.message()); await d.dismiss(); });
+    page.on('request', (r) => { if (!r.url().startsWith(url) && !r.url().startsWith('data:') && !r.url().startsWith('blob:')) offsite.push(r.url()); });
+    await page.goto(url);
+    await page.waitForSelector('#app[data-ready="true"]', { timeout: 20000 });
+
+    // 1. The example data file, one click, decides.
+    const typedBefore = await fieldValue(page, 'n1');
+    const state = await loaded(page, () => page.click('#data-demo'));
+    check('example: read', state === 'ready', state);
+    const src = await text(page, '#data-source');
+    check('example: 116 rows, 5 columns', /116 data rows, 5 columns/.test(src), src);
+    check('example: group sizes 56 and 56 filled', (await fieldValue(page, 'n1')) === '56' && (await fieldValue(page, 'n2')) === '56', `${await fieldValue(page, 'n1')} ${await fieldValue(page, 'n2')}`);
+    const mean1 = Number(await fieldValue(page, 'mean1'));
+    check('example: mean of group 1 is 39.375', Math.abs(mean1 - 39.375) < 1e-9, String(mean1));
+    check('example: the fields are marked as from the file', await page.locator('#w-data-mean1.from-file').count() === 1);
+    check('example: the note names the file', /clinic-recovery-data\.csv/.test(await text(page, '#data-fill-text')), await text(page, '#data-fill-text'));
+    const title = await text(page, '#decide-title');
+    check('example: decision shown', ['Reject H0', 'Do not reject H0', 'Inconclusive'].includes(title), title);
+    const summary = await text(page, '#data-summary');
+    check('example: summary per group', /early loading/.test(summary) && /standard/.test(summary) && /39\.4/.test(summary), summary.slice(0, 200));
+    const ink = await page.evaluate(() => {
+      const c = document.getElementById('chart-histogram');
+      const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+      let k = 0;
+      for (let i = 0; i < d.length; i += 4) if (d[i] < 235 || d[i + 1] < 235 || d[i + 2] < 235) k += 1;
+      return k / (d.length / 4);
+    });
+    check('example: histogram drawn', ink > 0.02, String(ink));
+    check('example: quantile plot has its table', await page.locator('#table-quantile table').count() === 1);
+    check('example: the two protocols were picked as groups', /early loading/.test(await text(page, '#data-mapping')));
+    await shot(page, 'data-example.png');
+
+    // Undo puts back what was typed before, and "use again" refills.
+    await act(page, () => page.click('#data-fill-undo'));
+    check('undo: typed figures back', (await fieldValue(page, 'n1')) === typedBefore, await fieldValue(page, 'n1'));
+    check('undo: no field marked', await page.locator('.from-file').count() === 0);
+    await act(page, () => page.click('#data-fill-use'));
+    check('use again: file figures back', (await fieldValue(page, 'n1')) === '56');
+    // A figure the user edits is theirs: the mark goes.
+    await act(page, async () => { await page.fill('#f-data-sd2', '5.9'); });
+    check('edit: the edited field is no longer marked', await page.locator('#w-data-sd2.from-file').count() === 0 && await page.locator('#w-data-sd1.from-file').count() === 1);
+
+    // A family change remaps: two proportions from the yes/no column.
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="two_proportions"])'));
+    const s1 = await fieldValue(page, 'successes1');
+    check('two proportions: successes filled from the yes/no column', s1 === '38', s1);
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
+
+    // 2. Pasted CSV text.
+    await page.click('#new-design');
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="mean_t"])'));
+    const st2 = await paste(page, 'score\n4.1\n5.2\n3.9\n6.0\n5.5\n');
+    check('paste: read', st2 === 'ready', st2);
+    check('paste: n and mean filled', (await fieldValue(page, 'n')) === '5' && Math.abs(Number(await fieldValue(page, 'mean')) - 4.94) < 1e-9, `${await fieldValue(page, 'n')} ${await fieldValue(page, 'mean')}`);
+
+    // 3. A dropped file (semicolons, decimal commas).
+    const st3 = await drop(page, 'scores.csv', 'id;score\n1;4,5\n2;5,25\n3;3,75\n4;6,5\n');
+    check('drop: read', st3 === 'ready', st3);
+    check('drop: semicolon found', (await page.locator('input[name="dr-delimiter"][value=";"]').isChecked()));
+    check('drop: decimal comma found', (await page.locator('input[name="dr-decimal"][value="comma"]').isChecked()));
+    const m3 = Number(await fieldValue(page, 'mean'));
+    check('drop: mean of 4,5 5,25 3,75 6,5 is 5', Math.abs(m3 - 5) < 1e-9, String(m3));
+    // The override: read the same file with a decimal point.
+    await loaded(page, () => page.click('label.chip:has(input[name="dr-decimal"][value="point"])'));
+    check('override: decimal point chosen', await page.locator('input[name="dr-decimal"][value="point"]').isChecked());
+
+    // 4. A chosen file, with problems.
+    const bad = 'patient,group,days\nA1,new,40\nA2,new,forty-one\nA3,old,44\nA4,old,\nA5,new,38\nA6,old,n/a?\nA7,new,39\nA8,old,45\n';
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
+    const st4 = await choose(page, 'problems.csv', Buffer.from(bad));
+    check('choose: read', st4 === 'ready', st4);
+    const probs = await text(page, '#data-problems');
+    check('problems: row, column and value listed', /forty-one/.test(probs) && /days/.test(probs) && /\b3\b/.test(probs), probs.slice(0, 300));
+    check('problems: total counted', /2 problems in 2 rows/.test(probs), probs.slice(0, 120));
+    await shot(page, 'data-problems.png');
+    const nBefore = Number(await fieldValue(page, 'n1')) + Number(await fieldValue(page, 'n2'));
+    await act(page, () => page.check('#data-exclude'));
+    const excludedNote = await text(page, '#data-notes');
+    check('exclude: rows left out and said so', /left out/.test(excludedNote), excludedNote);
+    const nAfter = Number(await fieldValue(page, 'n1')) + Number(await fieldValue(page, 'n2'));
+    check('exclude: the sizes did not grow', nAfter <= nBefore, `${nBefore} -> ${nAfter}`);
+
+    // 5. HTML and script in headers and cells stay text.
+    const xss = '"<img src=x onerror=alert(1)>",<script>alert(2)</script>,value\n"<b>bold</b>",a,1\n"<img src=y onerror=alert(3)>",b,2\n"<svg onload=alert(4)>",a,3\nz,b,4\n';
+    const st5 = await drop(page, '<img src=x onerror=alert(5)>.csv', xss);
+    check('xss: read', st5 === 'ready', st5);
+    await page.evaluate(() => { document.getElementById('data-preview-box').open = true; });
+    await page.waitForTimeout(300);
+    const injected = await page.evaluate(() => document.querySelectorAll('#datafile img, #datafile script, #datafile svg, #datafile b:not(.chip b)').length);
+    check('xss: no element injected', injected === 0, String(injected));
+    const shown = await text(page, '#data-preview');
+    check('xss: header shown as text', shown.includes('<img src=x onerror=alert(1)>'), shown.slice(0, 200));
+    check('xss: cell shown as text', shown.includes('<svg onload=alert(4)>'));
+    check('xss: file name shown as text', (await text(page, '#data-source')).includes('<img src=x onerror=alert(5)>.csv'));
+    check('xss: no dialog', dialogs.length === 0, dialogs.join(' | '));
+    await shot(page, 'data-xss.png');
+
+    // 6. A binary file named .csv: a message, the page still computes.
+    const junk = Buffer.from(Array.from({ length: 4096 }, (_, i) => (i * 7919 + 13) % 256));
+    const st6 = await choose(page, 'photo.csv', junk, 'text/csv');
+    check('binary: refused with a message', st6 === 'error' && /could not be read/.test(await text(page, '#data-alert')), `${st6}: ${await text(page, '#data-alert')}`);
+    await page.click('#load-demo');
+    await page.waitForTimeout(300);
+    await act(page, () => page.fill('#f-beta_max', '0.05'));
+    check('binary: the page still computes', /n = \d+/.test(await text(page, '#size-headline')), await text(page, '#size-headline'));
+
+    // 7. A spreadsheet-named text file and the example as a chosen file.
+    const example = readFileSync(join(root, 'examples', 'clinic-recovery-data.csv'));
+    const st7 = await choose(page, 'clinic-recovery-data.csv', example);
+    check('choose: the example file as a file', st7 === 'ready' && (await fieldValue(page, 'n1')) === '56', st7);
+    await shot(page, 'data-section.png');
+
+    check('no console errors', errors.length === 0, errors.join(' | '));
+    check('no request left this machine', offsite.length === 0, offsite.join(' '));
+  } finally {
+    await browser.close();
+    await stopServer(child);
+  }
+}
+
+try {
+  await main();
+} catch (e) {
+  failed += 1;
+  console.log(`FAIL data test stopped: ${e.stack || e}`);
+}
+console.log(`screenshots in ${artifacts}`);
+console.log(`${passed} passed, ${failed} failed`);
+process.exit(failed === 0 ? 0 : 1);
