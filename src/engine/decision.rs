@@ -14,11 +14,19 @@ use super::threshold::{Alternative, ContinuousCut, DiscreteCut};
 use serde::Serialize;
 
 /// Summary data, as a user reads them off a report or a spreadsheet.
-#[derive(Debug, Clone, Copy, PartialEq)]
+/// Serialised untagged, as the JSON contract's `data` object
+/// (`{"n": 20, "mean": 5.1, "sd": 1.2}`).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(untagged)]
 pub enum Summary {
     /// One group of observations (or of paired differences). `sd` is not
     /// used by the z test (σ known) and required by the t tests.
-    OneGroup { n: f64, mean: f64, sd: Option<f64> },
+    OneGroup {
+        n: f64,
+        mean: f64,
+        #[serde(skip_serializing_if = "Option::is_none")]
+        sd: Option<f64>,
+    },
     TwoGroups { n1: f64, mean1: f64, sd1: f64, n2: f64, mean2: f64, sd2: f64 },
     Proportion { successes: f64, trials: f64 },
     TwoProportions { successes1: f64, trials1: f64, successes2: f64, trials2: f64 },

@@ -17,3 +17,4 @@ pub mod decision;
 pub mod curves;
 pub mod inverse;
 pub mod request;
+pub mod table;
