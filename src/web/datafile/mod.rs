@@ -187,7 +187,7 @@ fn start(name: String, source: Source) {
 
 /// Read the current source with the current options, then show it.
 fn reread() {
-    let Some((gen, (name, source), opts)) = with(|s| {
+    let Some((token, (name, source), opts)) = with(|s| {
         s.generation += 1;
         s.source.clone().map(|src| (s.generation, src, s.opts.clone()))
     }) else {
@@ -197,8 +197,8 @@ fn reread() {
     dom::set_attr("app", "data-file-state", Some("reading"));
     wasm_bindgen_futures::spawn_local(async move {
         let t0 = dom::now_ms();
-        let result = read(&source, &name, &opts, gen).await;
-        if with(|s| s.generation) != gen {
+        let result = read(&source, &name, &opts, token).await;
+        if with(|s| s.generation) != token {
             return; // a newer read took over
         }
         show::progress(None);
@@ -230,7 +230,7 @@ fn reread() {
 /// Read a source into a table. Text files go through the engine's
 /// incremental reader in chunks, with a pause for the browser between
 /// chunks and a progress bar once it takes longer than a moment.
-async fn read(source: &Source, name: &str, opts: &ReadOptions, gen: u64) -> Result<Table, String> {
+async fn read(source: &Source, name: &str, opts: &ReadOptions, token: u64) -> Result<Table, String> {
     match source {
         Source::Demo => table::read_table(DEMO_CSV.as_bytes(), Some(DEMO_NAME), opts).map_err(|e| e.to_string()),
         Source::Text(t) => table::read_table(t.as_bytes(), None, opts).map_err(|e| e.to_string()),
@@ -263,7 +263,7 @@ async fn read(source: &Source, name: &str, opts: &ReadOptions, gen: u64) -> Resu
                     pause().await;
                     last_yield = dom::now_ms();
                 }
-                if with(|s| s.generation) != gen {
+                if with(|s| s.generation) != token {
                     return Err("a newer file replaced it".into());
                 }
             }
