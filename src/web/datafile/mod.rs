@@ -201,18 +201,26 @@ fn reread() {
         if with(|s| s.generation) != token {
             return; // a newer read took over
         }
-        show::progress(None);
         let parse_ms = dom::now_ms() - t0;
         match result {
             Ok(t) => {
+                if parse_ms > PROGRESS_AFTER_MS {
+                    show::progress(Some((1.0, format!("“{name}” is read; summarising the columns you chose"))));
+                    pause().await;
+                    if with(|s| s.generation) != token {
+                        return;
+                    }
+                }
                 let t = Rc::new(t);
                 with(|s| s.table = Some(t.clone()));
                 show::table(&name, &t, &opts);
                 remap();
                 resummarise(false);
+                show::progress(None);
                 dom::set_attr("app", "data-file-state", Some("ready"));
             }
             Err(msg) => {
+                show::progress(None);
                 // The previous table (if any) and every typed figure stay.
                 show::alert(&format!("“{name}” could not be read: {msg}. Nothing else on the page has changed."));
                 dom::set_attr("app", "data-file-state", Some("error"));
@@ -240,7 +248,10 @@ async fn read(source: &Source, name: &str, opts: &ReadOptions, token: u64) -> Re
             let head = bytes(f, 0.0, size.min(4.0)).await?;
             let zip = head.starts_with(b"PK\x03\x04") || lower.ends_with(".xlsx") || lower.ends_with(".ods");
             if zip {
-                // Spreadsheets are zip archives: read whole.
+                // Spreadsheets are zip archives: read whole, after a word
+                // on screen.
+                show::progress(Some((0.0, format!("Reading the spreadsheet “{name}”"))));
+                pause().await;
                 let all = bytes(f, 0.0, size).await?;
                 return table::read_table(&all, Some(name), opts).map_err(|e| e.to_string());
             }
@@ -268,7 +279,7 @@ async fn read(source: &Source, name: &str, opts: &ReadOptions, token: u64) -> Re
                 }
             }
             if dom::now_ms() - t0 > PROGRESS_AFTER_MS {
-                show::progress(Some((1.0, format!("Reading “{name}”: summarising the columns"))));
+                show::progress(Some((1.0, format!("Reading “{name}”: checking every column"))));
                 pause().await;
             }
             builder.finish().map_err(|e| e.to_string())
