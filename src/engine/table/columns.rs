@@ -113,10 +113,6 @@ impl ColumnsBuilder {
         }
     }
 
-    pub fn width(&self) -> usize {
-        self.columns.len()
-    }
-
     pub fn rows(&self) -> usize {
         self.row_numbers.len()
     }
