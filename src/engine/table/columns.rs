@@ -113,10 +113,6 @@ impl ColumnsBuilder {
         }
     }
 
-    pub fn width(&self) -> usize {
-        self.columns.len()
-    }
-
     pub fn rows(&self) -> usize {
         self.row_numbers.len()
     }
@@ -142,12 +138,12 @@ impl ColumnsBuilder {
                 let (column, message) = if cells.len() < width {
                     (
                         self.columns[cells.len()].name.clone(),
-                        format!("this row has {} fields but the table has {width} columns; the cells from this column on are read as missing", cells.len()),
+                        format!("this row has {} field(s) but the table has {width} columns; the cells from this column on are read as missing", cells.len()),
                     )
                 } else {
                     (
                         format!("after column {width}"),
-                        format!("this row has {} fields but the table has {width} columns; the extra fields are not read", cells.len()),
+                        format!("this row has {} field(s) but the table has {width} columns; the extra fields are not read", cells.len()),
                     )
                 };
                 let value = cells.iter().skip(width.min(cells.len())).map(|c| raw_text(c)).collect::<Vec<_>>().join(" | ");

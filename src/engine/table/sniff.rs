@@ -4,10 +4,13 @@
 //! Rules (DEVELOPERS.md, "Data files"):
 //! - zip signature → spreadsheet; the old binary Excel signature, UTF-16
 //!   byte-order marks and NUL bytes in the first 8 KiB → not text (error).
-//! - delimiter: each of `,` `;` tab `|` splits the sample (RFC 4180 quoting);
-//!   the score is the share of records with the most common field count,
-//!   less 0.2 when that count is 1; ties go to more fields, then to the
-//!   order `,` `;` tab `|`.
+//! - delimiter: each of tab `;` `,` `|` splits the sample (RFC 4180
+//!   quoting). A candidate is eligible when the most common field count k
+//!   is above 1, the first record has k fields and at least half the
+//!   records have k; the eligible one with the largest share of k-field
+//!   records wins, ties in the order tab, `;`, `,`, `|` (a `;` file with
+//!   decimal commas also splits evenly at the commas). None eligible: one
+//!   column, read with the candidate that splits the fewest records.
 //! - header: the first record is a header when none of its cells is a
 //!   number, and either some column holds numbers below it or its cells are
 //!   all filled, distinct and do not recur below.
@@ -89,7 +92,8 @@ pub(crate) struct Sniffed {
     pub width: usize,
 }
 
-pub(crate) const DELIMITERS: [u8; 4] = [b',', b';', b'\t', b'|'];
+/// Candidates in order of preference on ties.
+pub(crate) const DELIMITERS: [u8; 4] = [b'\t', b';', b',', b'|'];
 
 /// Split `sample` into records of lossily decoded fields with `delimiter`.
 /// When the sample is not the whole file the last (possibly cut) record is
@@ -177,21 +181,27 @@ pub(crate) fn sniff_text(sample: &[u8], complete: bool, opts: &ReadOptions) -> R
     let delimiter = match opts.delimiter {
         Some(d) => d,
         None => {
-            let mut best: Option<(f64, usize, u8)> = None;
-            for (rank, &d) in DELIMITERS.iter().enumerate() {
+            // (share, delimiter) of the best eligible candidate.
+            let mut best: Option<(f64, u8)> = None;
+            // No candidate eligible: one column, read with the candidate
+            // that splits the fewest records (ties: `,` `;` tab `|`).
+            let mut single: Option<(usize, u8)> = None;
+            let mut unsplit = [0usize; 4];
+            for (i, &d) in DELIMITERS.iter().enumerate() {
                 let recs = records(sample, d, complete);
                 let (k, share) = mode_count(&recs);
-                let score = if k <= 1 { share - 0.2 } else { share };
-                let better = match best {
-                    None => true,
-                    Some((s, bk, _)) => score > s + 1e-9 || ((score - s).abs() <= 1e-9 && k > bk),
-                };
-                let _ = rank;
-                if better {
-                    best = Some((score, k, d));
+                let eligible = k > 1 && recs.first().is_some_and(|r| r.len() == k) && share >= 0.5;
+                if eligible && best.is_none_or(|(s, _)| share > s + 1e-9) {
+                    best = Some((share, d));
+                }
+                unsplit[i] = recs.iter().filter(|r| r.len() == 1).count();
+            }
+            for i in [2, 1, 0, 3] {
+                if single.is_none_or(|(s, _)| unsplit[i] > s) {
+                    single = Some((unsplit[i], DELIMITERS[i]));
                 }
             }
-            best.map(|(_, _, d)| d).unwrap_or(b',')
+            best.map(|(_, d)| d).or(single.map(|(_, d)| d)).unwrap_or(b',')
         }
     };
     let recs = records(sample, delimiter, complete);
