@@ -22,7 +22,9 @@ fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
     let dpr = dom::window().map_or(1.0, |w| w.device_pixel_ratio());
     let look = Look::new(dpr);
     // Wide charts get a flatter shape; narrow ones stay readable.
-    let css_h = (css_w * 0.62).clamp(260.0, 400.0).round();
+    // A chart may ask for more height (data-min-height, CSS pixels).
+    let min_h = canvas.get_attribute("data-min-height").and_then(|v| v.parse::<f64>().ok()).unwrap_or(260.0).clamp(260.0, 800.0);
+    let css_h = (css_w * 0.62).clamp(min_h, 400.0_f64.max(min_h)).round();
     let _ = canvas.set_attribute("style", &format!("height:{css_h}px"));
     let (w, h) = ((css_w * look.scale).round() as u32, (css_h * look.scale).round() as u32);
     if canvas.width() != w {

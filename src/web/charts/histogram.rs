@@ -81,7 +81,17 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, v: &HistogramView
         };
         let ymax = curve.iter().map(|p| p.1).fold(top, f64::max).max(1.0) * 1.15;
         let x_desc = if i == last { v.x_label.as_str() } else { "" };
-        let mut chart = cartesian(panel, look, (x0, x1), (0.0, ymax))?;
+        // The group's name on a strip of its own above its panel.
+        let (title, body) = panel.split_vertically(look.px(20.0));
+        title.draw(&Text::new(
+            match (v.groups.len(), i) {
+                (1, _) => format!("{} (n = {})", g.label, g.n),
+                (_, i) => format!("group {}: {} (n = {})", i + 1, g.label, g.n),
+            },
+            (look.px(64.0), look.px(10.0)),
+            look.text_in(13.0, c).pos(Pos::new(HPos::Left, VPos::Center)),
+        ))?;
+        let mut chart = cartesian(&body, look, (x0, x1), (0.0, ymax))?;
         mesh(&mut chart, look, x_desc, "count", &|x| short(*x), &|y| if y.fract() == 0.0 { short(*y) } else { String::new() })?;
         let bars: Vec<(f64, f64, f64)> =
             g.edges.windows(2).zip(g.counts.iter()).filter(|(_, n)| **n > 0).map(|(e, &n)| (e[0], e[1], n as f64)).collect();
@@ -100,12 +110,6 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, v: &HistogramView
         if !curve.is_empty() {
             chart.draw_series(DashedLineSeries::new(curve, look.px(6.0), look.px(4.0), INK.stroke_width(look.width(1.8))))?;
         }
-        let (pw, _) = panel.dim_in_pixel();
-        panel.draw(&Text::new(
-            g.label.clone(),
-            (pw as i32 - look.px(20.0), look.px(10.0)),
-            look.text_in(13.0, c).pos(Pos::new(HPos::Right, VPos::Top)),
-        ))?;
     }
     Ok(())
 }

@@ -8,7 +8,7 @@
 //! them when the columns are still there.
 
 use crate::engine::design::Family;
-use crate::engine::table::{ColumnKind, Mapping, Table};
+use crate::engine::table::{self, ColumnKind, Mapping, Table};
 
 /// The shape of the mapping a family needs.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -116,7 +116,17 @@ pub fn candidates(t: &Table, r: Role, choice: &Choice) -> Vec<String> {
         Role::Value | Role::First | Role::Second => {
             t.columns.iter().filter(|c| c.kind == ColumnKind::Numeric).map(|c| c.name.clone()).collect()
         }
-        Role::Group | Role::Outcome => t.columns.iter().filter(|c| c.levels.len() >= 2).map(|c| c.name.clone()).collect(),
+        // A group or outcome column has a few distinct values (numbers
+        // only when they look like codes, such as 0/1 or 1/2/3).
+        Role::Group | Role::Outcome => t
+            .columns
+            .iter()
+            .filter(|c| {
+                let most = if c.kind == ColumnKind::Numeric { 10 } else { table::LEVELS_SHOWN };
+                c.distinct.is_some_and(|k| (2..=most).contains(&k))
+            })
+            .map(|c| c.name.clone())
+            .collect(),
         Role::Level1 | Role::Level2 => levels(t, choice.get(Role::Group)),
         Role::Success => levels(t, choice.get(Role::Outcome)),
     }

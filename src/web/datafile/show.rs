@@ -118,6 +118,17 @@ pub fn table(name: &str, t: &Table, opts: &ReadOptions) {
         append(&read, ul);
     }
     dom::replace("data-read", Some(&read));
+    let sep = match t.format {
+        Format::Delimited { delimiter: '\t' } => "tabs between columns, ".to_string(),
+        Format::Delimited { delimiter } => format!("“{delimiter}” between columns, "),
+        _ => String::new(),
+    };
+    let brief = format!(
+        "({sep}decimal {}, {}; change any of these here)",
+        if t.decimal == DecimalMark::Comma { "comma" } else { "point" },
+        if t.header { "first row: column names" } else { "no row of column names" }
+    );
+    dom::set_text("data-read-brief", &brief);
 
     // Columns: what each holds over the whole file.
     let rows: Vec<Vec<String>> = t
