@@ -176,7 +176,28 @@ async function main() {
     check('xss: no dialog', dialogs.length === 0, dialogs.join(' | '));
     await shot(page, 'data-xss.png');
 
-    // 6. A binary file named .csv: a message, the page still computes.
+    // 6. Spreadsheets: .xlsx with a sheet picker, .ods, a truncated .xlsx.
+    const corpus = (f) => readFileSync(join(root, 'tests', 'data_files', f));
+    const XLSX = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
+    const st8 = await choose(page, 'valid.xlsx', corpus('valid.xlsx'), XLSX);
+    check('xlsx: read', st8 === 'ready' && /Excel workbook/.test(await text(page, '#data-source')), `${st8}: ${await text(page, '#data-source')}`);
+    check('xlsx: both sheets offered', await page.locator('input[name="dr-sheet"]').count() === 2);
+    await loaded(page, () => page.click('label.chip:has(input[name="dr-sheet"][value="Dose"])'));
+    check('xlsx: the other sheet read', /sheet “Dose”, 3 data rows/.test(await text(page, '#data-source')), await text(page, '#data-source'));
+    const st9 = await choose(page, 'valid.ods', corpus('valid.ods'), 'application/vnd.oasis.opendocument.spreadsheet');
+    check('ods: read', st9 === 'ready' && /OpenDocument/.test(await text(page, '#data-source')), `${st9}: ${await text(page, '#data-source')}`);
+    const st10 = await choose(page, 'truncated.xlsx', corpus('truncated.xlsx'), XLSX);
+    check('truncated xlsx: a message, the last table kept', st10 === 'error' && /could not be read/.test(await text(page, '#data-alert')) && /valid\.ods/.test(await text(page, '#data-source')), `${st10}: ${await text(page, '#data-alert')}`);
+
+    // 7. Paired columns: rows with one side missing are dropped and counted.
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="paired_t"])'));
+    const st11 = await choose(page, 'paired.csv', corpus('paired.csv'));
+    check('paired: read', st11 === 'ready', st11);
+    check('paired: before and after picked', await page.locator('input[name="dm-first"][value="before"]').isChecked() && await page.locator('input[name="dm-second"][value="after"]').isChecked());
+    check('paired: 4 pairs, 2 rows dropped and said so', (await fieldValue(page, 'n')) === '4' && /2 rows were dropped/.test(await text(page, '#data-notes')), `${await fieldValue(page, 'n')}: ${await text(page, '#data-notes')}`);
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
+
+    // 8. A binary file named .csv: a message, the page still computes.
     const junk = Buffer.from(Array.from({ length: 4096 }, (_, i) => (i * 7919 + 13) % 256));
     const st6 = await choose(page, 'photo.csv', junk, 'text/csv');
     check('binary: refused with a message', st6 === 'error' && /could not be read/.test(await text(page, '#data-alert')), `${st6}: ${await text(page, '#data-alert')}`);
@@ -185,7 +206,7 @@ async function main() {
     await act(page, () => page.fill('#f-beta_max', '0.05'));
     check('binary: the page still computes', /n = \d+/.test(await text(page, '#size-headline')), await text(page, '#size-headline'));
 
-    // 7. A spreadsheet-named text file and the example as a chosen file.
+    // 9. The example as a chosen file.
     const example = readFileSync(join(root, 'examples', 'clinic-recovery-data.csv'));
     const st7 = await choose(page, 'clinic-recovery-data.csv', example);
     check('choose: the example file as a file', st7 === 'ready' && (await fieldValue(page, 'n1')) === '56', st7);

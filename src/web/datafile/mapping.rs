@@ -132,6 +132,13 @@ pub fn candidates(t: &Table, r: Role, choice: &Choice) -> Vec<String> {
     }
 }
 
+/// Does a column name read like a row label (patient, id, case number)?
+fn id_like(name: &str) -> bool {
+    let n = name.trim().to_lowercase();
+    let words = ["id", "patient", "subject", "participant", "case", "row", "index", "no", "nr", "number", "#", "record"];
+    words.contains(&n.as_str()) || n.ends_with("_id") || n.ends_with(" id") || n.starts_with("id_")
+}
+
 /// Does a level read like a success ("yes", "true", "1", ...)?
 fn success_like(s: &str) -> bool {
     matches!(s.trim().to_lowercase().as_str(), "yes" | "y" | "true" | "1" | "success" | "positive" | "pass" | "detected" | "ja" | "oui" | "sí" | "si")
@@ -150,7 +157,11 @@ pub fn complete(t: &Table, s: Shape, old: &Choice, unit: &str) -> Choice {
             continue;
         }
         let taken: Vec<String> = c.picks.iter().map(|(_, v)| v.clone()).collect();
-        let free: Vec<&String> = cands.iter().filter(|x| !taken.contains(x)).collect();
+        let mut free: Vec<&String> = cands.iter().filter(|x| !taken.contains(x)).collect();
+        // A column that numbers the rows is rarely the measurement.
+        if matches!(r, Role::Value | Role::First | Role::Second) && free.iter().any(|x| !id_like(x)) {
+            free.retain(|x| !id_like(x));
+        }
         let pick = match r {
             Role::Value => {
                 let u = unit.trim().to_lowercase();
