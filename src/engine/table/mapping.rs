@@ -96,7 +96,7 @@ pub fn summarise(table: &Table, mapping: &Mapping, exclude_rows: &[usize]) -> Re
             label: g.label.clone(),
             n: g.values.len(),
             missing: g.missing,
-            mean: m.mean,
+            mean: m.mean(),
             sd: m.sd(),
             median,
             min: m.min,
