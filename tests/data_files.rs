@@ -339,6 +339,18 @@ fn one_non_number_in_100000_rows_is_found() {
     assert_eq!(t.problems.rows, [73_212]);
     let values = group_values(&t, &Mapping::OneColumn { column: 1 }, &t.problems.rows).unwrap();
     assert_eq!(values[0].len(), 99_999);
+    // The same in chunks that cut records, with and without a size hint.
+    for hint in [None, Some(text.len() as u64)] {
+        let mut b = TableBuilder::new(ReadOptions::default());
+        if let Some(h) = hint {
+            b.size_hint(h);
+        }
+        for chunk in text.as_bytes().chunks(70_001) {
+            b.push(chunk).unwrap();
+        }
+        assert_eq!(b.bytes_read(), text.len() as u64);
+        assert_eq!(format!("{:?}", b.finish().unwrap()), format!("{t:?}"));
+    }
 }
 
 #[test]
@@ -369,5 +381,75 @@ fn arbitrary_bytes_never_panic() {
         }
         let _ = read_table(&b, None, &ReadOptions::default());
         let _ = read_table(&b, Some("x.xlsx"), &ReadOptions::default());
+    }
+}
+
+#[test]
+fn number_syntax() {
+    use tern::engine::table::parse_number;
+    use DecimalMark::{Comma, Point};
+    // (text, mark, expected): the rules of DEVELOPERS.md, "Data files".
+    let cases: &[(&str, DecimalMark, Option<f64>)] = &[
+        ("1.5", Point, Some(1.5)),
+        ("1,5", Comma, Some(1.5)),
+        ("1,5", Point, None),
+        ("1,234.5", Point, Some(1234.5)),
+        ("1.234,5", Comma, Some(1234.5)),
+        ("1 234,5", Comma, Some(1234.5)),
+        ("1\u{a0}234.5", Point, Some(1234.5)),
+        ("1'234'567", Point, Some(1234567.0)),
+        ("12,34", Point, None),
+        ("0,123", Point, None),
+        ("1,2345", Point, None),
+        ("1,234,56", Point, None),
+        ("1.234.567", Comma, Some(1234567.0)),
+        (" -3.25 ", Point, Some(-3.25)),
+        ("\u{2212}3", Point, Some(-3.0)),
+        ("+.5", Point, Some(0.5)),
+        ("5.", Point, Some(5.0)),
+        ("1e3", Point, Some(1000.0)),
+        ("1,5e-3", Comma, Some(0.0015)),
+        ("1e", Point, None),
+        ("1e400", Point, None),
+        ("inf", Point, None),
+        ("NaN", Point, None),
+        ("0x1F", Point, None),
+        ("", Point, None),
+        ("-", Point, None),
+        (".", Point, None),
+        ("12.3x", Point, None),
+        ("1.2.3", Point, None),
+    ];
+    for &(text, mark, want) in cases {
+        assert_eq!(parse_number(text, mark), want, "{text:?} with {mark:?}");
+    }
+}
+
+mod never_panics {
+    use proptest::prelude::*;
+    use tern::engine::table::{Mapping, ReadOptions, TableBuilder, read_table, summarise};
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(400))]
+        #[test]
+        fn any_bytes_read_or_fail_cleanly(b in proptest::collection::vec(prop_oneof![
+            Just(b'"'), Just(b','), Just(b';'), Just(b'\n'), Just(b'\r'), Just(b'1'), Just(b'.'), Just(b'a'), any::<u8>()
+        ], 0..300), split in 1usize..50) {
+            if let Ok(t) = read_table(&b, None, &ReadOptions::default()) {
+                for c in 0..t.columns.len() {
+                    let _ = summarise(&t, &Mapping::OneColumn { column: c }, &t.problems.rows);
+                    let _ = summarise(&t, &Mapping::Paired { first: c, second: 0 }, &[]);
+                }
+            }
+            let mut builder = TableBuilder::new(ReadOptions::default());
+            let mut ok = true;
+            for chunk in b.chunks(split) {
+                ok &= builder.push(chunk).is_ok();
+            }
+            let _ = ok && builder.finish().is_ok();
+            let mut zipped = b"PK\x03\x04".to_vec();
+            zipped.extend_from_slice(&b);
+            let _ = read_table(&zipped, Some("x.xlsx"), &ReadOptions::default());
+        }
     }
 }

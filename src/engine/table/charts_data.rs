@@ -31,17 +31,27 @@ pub struct Histogram {
 
 const RULE: &str = "NumPy's \"auto\" rule: the smaller of the Freedman–Diaconis and Sturges bin widths";
 
-/// Linearly interpolated quantile of sorted data (NumPy's default), p in [0, 1].
-pub(crate) fn quantile_sorted(sorted: &[f64], p: f64) -> f64 {
-    let n = sorted.len();
+/// Linearly interpolated quantiles of finite data at each p in `ps`,
+/// without sorting (selection, O(n) each); `scratch` is reordered.
+pub(crate) fn quantiles(scratch: &mut [f64], ps: &[f64]) -> Vec<f64> {
+    let n = scratch.len();
     if n == 0 {
-        return f64::NAN;
+        return vec![f64::NAN; ps.len()];
     }
-    let h = (n - 1) as f64 * p;
-    let lo = h.floor() as usize;
-    let hi = (lo + 1).min(n - 1);
-    let t = h - lo as f64;
-    sorted[lo] + t * (sorted[hi] - sorted[lo])
+    ps.iter()
+        .map(|&p| {
+            let h = (n - 1) as f64 * p;
+            let lo = (h.floor() as usize).min(n - 1);
+            let t = h - lo as f64;
+            let (_, &mut a, right) = scratch.select_nth_unstable_by(lo, f64::total_cmp);
+            if t == 0.0 || right.is_empty() {
+                a
+            } else {
+                let b = right.iter().copied().fold(f64::INFINITY, f64::min);
+                a + t * (b - a)
+            }
+        })
+        .collect()
 }
 
 /// Finite values, sorted ascending.
@@ -53,16 +63,17 @@ pub(crate) fn sorted_finite(values: &[f64]) -> Vec<f64> {
 
 /// Histogram of the finite values (others are ignored).
 pub fn histogram(values: &[f64]) -> Histogram {
-    let x = sorted_finite(values);
+    let mut x: Vec<f64> = values.iter().copied().filter(|v| v.is_finite()).collect();
     let n = x.len();
     if n == 0 {
         return Histogram { edges: Vec::new(), counts: Vec::new(), rule: RULE };
     }
-    let (mut first, mut last) = (x[0], x[n - 1]);
+    let (mut first, mut last) = x.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), &v| (lo.min(v), hi.max(v)));
     let range = last - first;
     let bins = if range > 0.0 {
         let sturges = range / ((n as f64).log2() + 1.0);
-        let iqr = quantile_sorted(&x, 0.75) - quantile_sorted(&x, 0.25);
+        let q = quantiles(&mut x, &[0.25, 0.75]);
+        let iqr = q[1] - q[0];
         let fd = 2.0 * iqr * (n as f64).powf(-1.0 / 3.0);
         let width = if fd > 0.0 { fd.min(sturges) } else { sturges };
         ((range / width).ceil() as usize).clamp(1, MAX_BINS)

@@ -113,6 +113,14 @@ impl ColumnsBuilder {
         }
     }
 
+    /// Room for `rows` data rows in every column, allocated once.
+    pub fn reserve(&mut self, rows: usize) {
+        self.row_numbers.reserve_exact(rows);
+        for c in &mut self.columns {
+            c.values.reserve_exact(rows);
+        }
+    }
+
     pub fn rows(&self) -> usize {
         self.row_numbers.len()
     }

@@ -26,6 +26,8 @@ use csv_core::ReadRecordResult;
 /// ```
 pub struct TableBuilder {
     opts: ReadOptions,
+    /// Total file size, if the caller knows it.
+    total: Option<u64>,
     state: State,
     /// Bytes pushed so far.
     pushed: u64,
@@ -67,14 +69,24 @@ struct Parser {
     /// First cell that was not UTF-8 (line, column name).
     latin1: Option<(usize, usize)>,
     latin1_cells: usize,
-    /// Fields of the current record, decoded.
+    /// Cells of the current record that needed decoding.
     fields: Vec<String>,
+    /// Expected data rows (from the size hint), to allocate columns once.
+    rows_hint: usize,
     extra: Vec<Problem>,
 }
 
 impl TableBuilder {
     pub fn new(opts: ReadOptions) -> Self {
-        TableBuilder { opts, state: State::Sampling(Vec::new()), pushed: 0 }
+        TableBuilder { opts, total: None, state: State::Sampling(Vec::new()), pushed: 0 }
+    }
+
+    /// The file's total size in bytes, when known (a dropped file's size):
+    /// the columns are then allocated once for the rows the sample
+    /// predicts, instead of growing by doubling (which briefly needs three
+    /// times a column's memory, and a WebAssembly memory never shrinks).
+    pub fn size_hint(&mut self, total_bytes: u64) {
+        self.total = Some(total_bytes);
     }
 
     /// Bytes pushed so far (for a progress bar).
@@ -152,7 +164,14 @@ impl TableBuilder {
         if body.iter().all(|b| b.is_ascii_whitespace()) && complete {
             return Err(TableError::Empty);
         }
-        let (sn, _recs) = sniff::sniff_text(body, complete, &self.opts)?;
+        let (sn, recs) = sniff::sniff_text(body, complete, &self.opts)?;
+        // Rows expected from the sample's bytes per record, 2 % spare.
+        let rows_hint = match self.total {
+            Some(total) if !complete && !recs.is_empty() => {
+                ((total as f64 / body.len().max(1) as f64 * recs.len() as f64 * 1.02) as usize).min(50_000_000)
+            }
+            _ => 0,
+        };
         let reader = CellReader::new(sn.decimal, &self.opts.missing);
         let cr_only = !body.contains(&b'\n') && body.contains(&b'\r');
         let mut p = Box::new(Parser {
@@ -176,11 +195,14 @@ impl TableBuilder {
             latin1: None,
             latin1_cells: 0,
             fields: Vec::new(),
+            rows_hint,
             extra: Vec::new(),
         });
         if !sn.header {
             let names = (1..=sn.width).map(|k| format!("Column {k}")).collect();
-            p.columns = Some(ColumnsBuilder::new(names, p.reader.clone()));
+            let mut builder = ColumnsBuilder::new(names, p.reader.clone());
+            builder.reserve(rows_hint);
+            p.columns = Some(builder);
         }
         p.feed(&sample, false)?;
         self.state = State::Parsing(p);
@@ -241,37 +263,54 @@ impl Parser {
         };
         self.last_start = line;
         self.last_multiline = newlines_inside > 0 || bytes.contains(&b'\r');
-        // Decode every field (UTF-8, or Windows-1252 for a cell that is not).
+        // Fields borrow the record buffer when it is UTF-8 (the usual
+        // case: no copy); a cell that is not is decoded as Windows-1252.
+        let whole = std::str::from_utf8(bytes).ok();
         self.fields.clear();
         let mut start = 0;
+        let mut spans: Vec<Result<(usize, usize), usize>> = Vec::with_capacity(self.ends_len);
         for (i, &e) in self.ends[..self.ends_len].iter().enumerate() {
-            let raw = &self.out[start..e];
+            let span = (start, e);
             start = e;
-            match std::str::from_utf8(raw) {
-                Ok(s) => self.fields.push(s.to_string()),
-                Err(_) => {
-                    let (s, _, _) = encoding_rs::WINDOWS_1252.decode(raw);
-                    self.latin1_cells += 1;
-                    if self.latin1.is_none() {
-                        self.latin1 = Some((line, i));
-                    }
-                    self.fields.push(s.into_owned());
+            match whole.and_then(|w| w.get(span.0..span.1)) {
+                Some(_) => spans.push(Ok(span)),
+                None => {
+                    let raw = &self.out[span.0..span.1];
+                    let text = match std::str::from_utf8(raw) {
+                        Ok(t) => t.to_string(),
+                        Err(_) => {
+                            self.latin1_cells += 1;
+                            if self.latin1.is_none() {
+                                self.latin1 = Some((line, i));
+                            }
+                            encoding_rs::WINDOWS_1252.decode(raw).0.into_owned()
+                        }
+                    };
+                    spans.push(Err(self.fields.len()));
+                    self.fields.push(text);
                 }
             }
         }
+        let text_of = |sp: &Result<(usize, usize), usize>| -> &str {
+            match sp {
+                Ok((a, b)) => whole.and_then(|w| w.get(*a..*b)).unwrap_or(""),
+                Err(k) => self.fields.get(*k).map_or("", String::as_str),
+            }
+        };
         if self.header_pending {
-            self.header_pending = false;
-            let names = (0..self.width.max(self.fields.len()))
-                .map(|k| match self.fields.get(k).map(|s| s.trim()) {
+            let names: Vec<String> = (0..self.width.max(1))
+                .map(|k| match spans.get(k).map(|sp| text_of(sp).trim()) {
                     Some(n) if !n.is_empty() => n.to_string(),
                     _ => format!("Column {}", k + 1),
                 })
-                .take(self.width.max(1))
                 .collect();
-            self.columns = Some(ColumnsBuilder::new(names, self.reader.clone()));
+            self.header_pending = false;
+            let mut builder = ColumnsBuilder::new(names, self.reader.clone());
+            builder.reserve(self.rows_hint);
+            self.columns = Some(builder);
             return Ok(());
         }
-        let cells: Vec<Raw<'_>> = self.fields.iter().map(|f| Raw::Text(f.as_str())).collect();
+        let cells: Vec<Raw<'_>> = spans.iter().map(|sp| Raw::Text(text_of(sp))).collect();
         match self.columns.as_mut() {
             Some(c) => c.push_row(line, &cells),
             None => Ok(()),

@@ -1,7 +1,7 @@
 //! Map columns to a design's data (one column, paired columns, a value and
 //! a group column, a binary outcome) and summarise each group.
 
-use super::charts_data::sorted_finite;
+use super::charts_data::quantiles;
 use super::columns::{Column, MISSING};
 use super::notes::{self, Group};
 use super::summary::Moments;
@@ -87,16 +87,16 @@ pub enum MappingError {
 pub fn summarise(table: &Table, mapping: &Mapping, exclude_rows: &[usize]) -> Result<DataSummary, MappingError> {
     let sel = select(table, mapping, exclude_rows)?;
     let mut groups = Vec::with_capacity(sel.groups.len());
-    let mut sorted_groups = Vec::with_capacity(sel.groups.len());
+    let mut quartiles = Vec::with_capacity(sel.groups.len());
     for g in &sel.groups {
         let m = Moments::from_values(&g.values);
-        let sorted = sorted_finite(&g.values);
-        let median = super::charts_data::quantile_sorted(&sorted, 0.5);
+        let q = quantiles(&mut g.values.clone(), &[0.25, 0.5, 0.75]);
+        let median = q[1];
         groups.push(GroupStats {
             label: g.label.clone(),
             n: g.values.len(),
             missing: g.missing,
-            mean: m.mean,
+            mean: m.mean(),
             sd: m.sd(),
             median,
             min: m.min,
@@ -105,7 +105,7 @@ pub fn summarise(table: &Table, mapping: &Mapping, exclude_rows: &[usize]) -> Re
             excess_kurtosis: m.excess_kurtosis(),
             successes: g.successes,
         });
-        sorted_groups.push(sorted);
+        quartiles.push((q[0], q[2]));
     }
     let sd = |g: &GroupStats| g.sd.unwrap_or(f64::NAN);
     let summary = match mapping {
@@ -134,9 +134,9 @@ pub fn summarise(table: &Table, mapping: &Mapping, exclude_rows: &[usize]) -> Re
     let binary = matches!(mapping, Mapping::Binary { .. } | Mapping::TwoGroupsBinary { .. });
     let views: Vec<Group<'_>> = groups
         .iter()
-        .zip(&sorted_groups)
+        .zip(&quartiles)
         .zip(&sel.groups)
-        .map(|((stats, sorted), g)| Group { stats, sorted, values: &g.values, rows: &g.rows, table })
+        .map(|((stats, &quartiles), g)| Group { stats, quartiles, values: &g.values, rows: &g.rows, table })
         .collect();
     let notes = notes::notes(&views, binary, sel.dropped_pairs, sel.other_rows, sel.excluded);
     Ok(DataSummary { groups, dropped_pairs: sel.dropped_pairs, excluded: sel.excluded, summary, notes })

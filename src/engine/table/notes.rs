@@ -12,14 +12,14 @@
 //! - proportions: fewer than 5 successes or 5 failures in a group makes the
 //!   normal approximation rough.
 
-use super::charts_data::quantile_sorted;
 use super::mapping::GroupStats;
 use super::Table;
 
 /// One group as the notes see it.
 pub(crate) struct Group<'a> {
     pub stats: &'a GroupStats,
-    pub sorted: &'a [f64],
+    /// First and third quartiles (linear interpolation).
+    pub quartiles: (f64, f64),
     pub values: &'a [f64],
     /// Data index of each value.
     pub rows: &'a [u32],
@@ -76,8 +76,8 @@ pub(crate) fn notes(groups: &[Group<'_>], binary: bool, dropped_pairs: usize, ot
                 s.n
             ));
         }
-        if g.sorted.len() >= 4 {
-            let (q1, q3) = (quantile_sorted(g.sorted, 0.25), quantile_sorted(g.sorted, 0.75));
+        if g.values.len() >= 4 {
+            let (q1, q3) = g.quartiles;
             let iqr = q3 - q1;
             if iqr > 0.0 {
                 let (lo, hi) = (q1 - 3.0 * iqr, q3 + 3.0 * iqr);

@@ -12,27 +12,38 @@
 //! bias-adjusted G2 = ((n+1)·g2 + 6)·(n−1)/((n−2)(n−3)), where
 //! g1 = m3/m2^{3/2}, g2 = m4/m2² − 3 and m_k = M_k/n: SciPy's
 //! `skew(bias=False)` and `kurtosis(bias=False)`.
+//!
+//! Shift: every value is first reduced by the first value seen (exact when
+//! the values are within a factor of two of it, Sterbenz), so the running
+//! mean stays of the order of the spread. Without it the running mean of
+//! data near 1e9 with a spread of 0.01 is rounded to 1e-7 at every step and
+//! the sd loses six digits; with it the sd matches a two-pass computation.
 
-use serde::Serialize;
-
-/// Running central moment sums.
-#[derive(Debug, Clone, Copy, PartialEq, Default, Serialize)]
+/// Running central moment sums of the shifted values.
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
 pub struct Moments {
     pub n: u64,
-    pub mean: f64,
-    /// Σ(x − mean)².
-    pub m2: f64,
-    /// Σ(x − mean)³.
-    pub m3: f64,
-    /// Σ(x − mean)⁴.
-    pub m4: f64,
     pub min: f64,
     pub max: f64,
+    shift: f64,
+    /// Mean of x − shift.
+    mean: f64,
+    /// Σ(x − mean)².
+    m2: f64,
+    /// Σ(x − mean)³.
+    m3: f64,
+    /// Σ(x − mean)⁴.
+    m4: f64,
 }
 
 impl Moments {
     pub fn new() -> Self {
         Moments { min: f64::INFINITY, max: f64::NEG_INFINITY, ..Moments::default() }
+    }
+
+    /// The mean of the values pushed (NaN when none).
+    pub fn mean(&self) -> f64 {
+        if self.n == 0 { f64::NAN } else { self.shift + self.mean }
     }
 
     pub fn from_values(values: &[f64]) -> Self {
@@ -45,6 +56,12 @@ impl Moments {
 
     /// Add one finite value.
     pub fn push(&mut self, x: f64) {
+        if self.n == 0 {
+            self.shift = x;
+        }
+        self.min = self.min.min(x);
+        self.max = self.max.max(x);
+        let x = x - self.shift;
         let n1 = self.n as f64;
         self.n += 1;
         let n = self.n as f64;
@@ -56,8 +73,6 @@ impl Moments {
         self.m4 += term1 * delta_n2 * (n * n - 3.0 * n + 3.0) + 6.0 * delta_n2 * self.m2 - 4.0 * delta_n * self.m3;
         self.m3 += term1 * delta_n * (n - 2.0) - 3.0 * delta_n * self.m2;
         self.m2 += term1;
-        self.min = self.min.min(x);
-        self.max = self.max.max(x);
     }
 
     /// Sample standard deviation (n − 1); `None` for n < 2.
