@@ -91,6 +91,7 @@ async function main() {
     console.log(`time: read ${(parse / 1000).toFixed(2)} s, read + summarise ${(total / 1000).toFixed(2)} s (target <= 1.5 s); wall clock from setInputFiles ${(wall / 1000).toFixed(2)} s`);
     const engine = Number(app.fileEngineMs);
     console.log(`throughput: ${(size / 1e6 / (parse / 1000)).toFixed(1)} MB/s read as the page sees it (1 MB chunks); ${(size / 1e6 / (engine / 1000)).toFixed(1)} MB/s inside the wasm reader alone (${(engine / 1000).toFixed(2)} s of the read)`);
+    console.log(`after reading: summaries ${app.summariseMs} ms, chart data (group values, histogram, quantile points) ${app.chartPrepMs} ms, drawing both charts ${app.chartDrawMs} ms`);
     console.log(`memory: JS heap used ${(heap0 / 1e6).toFixed(1)} MB before, peak ${(peakHeap / 1e6).toFixed(1)} MB; wasm memory ${(wasm0 / 1e6).toFixed(1)} MB before, ${(wasm1 / 1e6).toFixed(1)} MB after`);
     console.log(`memory: peak (JS heap + wasm) ${(peak / 1e6).toFixed(1)} MB = ${(peak / size).toFixed(2)}x the file (target <= 3x); wasm growth alone ${((wasm1 - wasm0) / size).toFixed(2)}x`);
     console.log(`progress: the bar changed ${await page.evaluate(() => window.__progressSeen)} times while visible`);

@@ -258,6 +258,8 @@ async fn read(source: &Source, name: &str, opts: &ReadOptions, token: u64) -> Re
             let t0 = dom::now_ms();
             let mut last_yield = t0;
             let mut builder = TableBuilder::new(opts.clone());
+            // Columns sized once for the whole file (wasm memory never shrinks).
+            builder.size_hint(size as u64);
             let mut at = 0.0;
             // Time inside the engine's reader (the rest is the browser
             // reading the file and painting), for the benchmark.
@@ -392,13 +394,17 @@ fn resummarise(and_recompute: bool) {
         let sh = mapping::shape(f);
         let m = mapping::to_mapping(&t, sh, &choice).map_err(|q| format!("Still to choose: {q}"))?;
         let rows: &[usize] = if exclude { &t.problems.rows } else { &[] };
+        let t0 = dom::now_ms();
         let sum = table::summarise(&t, &m, rows).map_err(|e| capital(&e.to_string()))?;
+        dom::set_attr("app", "data-summarise-ms", Some(&format!("{:.1}", dom::now_ms() - t0)));
         let values = if matches!(sh, Shape::Binary | Shape::TwoGroupsBinary) { None } else { table::group_values(&t, &m, rows).ok() };
         Ok((sh, sum, values))
     });
     match outcome {
         Ok((sh, sum, values)) => {
+            let t0 = dom::now_ms();
             let views = values.map(|v| Rc::new(show::chart_views(&sum, &v, sh, &unit())));
+            dom::set_attr("app", "data-chart-prep-ms", Some(&format!("{:.1}", dom::now_ms() - t0)));
             show::summary(&sum, sh);
             let sum = Rc::new(sum);
             with(|s| {
@@ -418,7 +424,9 @@ fn resummarise(and_recompute: bool) {
             });
         }
     }
+    let t0 = dom::now_ms();
     draw_charts();
+    dom::set_attr("app", "data-chart-draw-ms", Some(&format!("{:.1}", dom::now_ms() - t0)));
     show_fill_note();
     if and_recompute {
         super::recompute();

@@ -340,12 +340,27 @@ pub fn chart_views(s: &DataSummary, values: &[Vec<f64>], sh: Shape, unit: &str) 
         let h = table::histogram(v);
         rule = h.rule.to_string();
         hist.push(HistogramGroup { label: label.clone(), edges: h.edges, counts: h.counts, mean, sd, n: v.len() });
-        qq.push(QuantileGroup { label, points: table::normal_quantile_points(v), mean, sd });
+        qq.push(QuantileGroup { label, points: thin(table::normal_quantile_points(v), QQ_DRAWN), mean, sd });
     }
     ChartViews {
         histogram: HistogramView { groups: hist, x_label: format!("{what}{u}"), rule },
         quantile: QuantileView { groups: qq, y_label: format!("{what}{u}"), positions: "Blom’s plotting positions (i − 3/8)/(n + 1/4)".into() },
     }
+}
+
+/// Points of a quantile plot drawn per group: more are indistinguishable on
+/// a chart a few hundred pixels wide, and each costs drawing time.
+const QQ_DRAWN: usize = 400;
+
+/// At most `k` points spread evenly by rank, keeping both ends.
+fn thin(points: Vec<(f64, f64)>, k: usize) -> Vec<(f64, f64)> {
+    if points.len() <= k || k < 2 {
+        return points;
+    }
+    let last = points.len() - 1;
+    let mut idx: Vec<usize> = (0..k).map(|i| i * last / (k - 1)).collect();
+    idx.dedup();
+    idx.into_iter().map(|i| points[i]).collect()
 }
 
 /// Draw both charts (or blank them), with their tables.
