@@ -161,6 +161,13 @@ async function main() {
     const nAfter = Number(await fieldValue(page, 'n1')) + Number(await fieldValue(page, 'n2'));
     check('exclude: the sizes did not grow', nAfter <= nBefore, `${nBefore} -> ${nAfter}`);
 
+    // The missing-value list is editable: "forty-one" read as missing.
+    await loaded(page, async () => { await page.fill('#data-missing', 'NA\nforty-one'); await page.locator('#data-missing').blur(); });
+    const probs2 = await text(page, '#data-problems');
+    check('missing list: an added token is no longer a problem', /1 problem in 1 row/.test(probs2) && !/forty-one/.test(probs2), probs2.slice(0, 120));
+    check('missing list: leaving rows out is still chosen after reading again', await page.locator('#data-exclude').isChecked());
+    await loaded(page, async () => { await page.fill('#data-missing', 'NA\nN/A\nNaN\n.\n-'); await page.locator('#data-missing').blur(); });
+
     // 5. HTML and script in headers and cells stay text.
     const xss = '"<img src=x onerror=alert(1)>",<script>alert(2)</script>,value\n"<b>bold</b>",a,1\n"<img src=y onerror=alert(3)>",b,2\n"<svg onload=alert(4)>",a,3\nz,b,4\n';
     const st5 = await drop(page, '<img src=x onerror=alert(5)>.csv', xss);

@@ -213,7 +213,7 @@ fn reread() {
                 }
                 let t = Rc::new(t);
                 with(|s| s.table = Some(t.clone()));
-                show::table(&name, &t, &opts);
+                show::table(&name, &t, &opts, with(|s| s.exclude));
                 remap();
                 resummarise(false);
                 show::progress(None);

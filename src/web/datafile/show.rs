@@ -67,7 +67,7 @@ fn found(detected: bool) -> &'static str {
 }
 
 /// Everything about the table itself (not the mapping).
-pub fn table(name: &str, t: &Table, opts: &ReadOptions) {
+pub fn table(name: &str, t: &Table, opts: &ReadOptions, exclude: bool) {
     dom::set_hidden("data-loaded", false);
     let kind = match t.format {
         Format::Delimited { .. } => "text table",
@@ -161,7 +161,7 @@ pub fn table(name: &str, t: &Table, opts: &ReadOptions) {
     let cap = format!("The first {} of {} data rows", t.preview.len(), t.n_rows);
     dom::replace("data-preview", dom::text_table(&cap, &head, &rows, true).as_ref());
 
-    problems(t);
+    problems(t, exclude);
 }
 
 fn append(parent: &Element, child: Option<Element>) {
@@ -171,7 +171,7 @@ fn append(parent: &Element, child: Option<Element>) {
 }
 
 /// The problems, located, with the choice to leave their rows out.
-fn problems(t: &Table) {
+fn problems(t: &Table, exclude: bool) {
     let p = &t.problems;
     if p.total == 0 {
         dom::set_hidden("data-problems", true);
@@ -191,6 +191,9 @@ fn problems(t: &Table) {
         if let Some(i) = dom::add(&l, "input", "") {
             let _ = i.set_attribute("type", "checkbox");
             let _ = i.set_attribute("id", "data-exclude");
+            if exclude {
+                let _ = i.set_attribute("checked", "");
+            }
         }
         if let Some(s) = dom::element("span", &format!(" Leave out these {} rows", p.rows.len())) {
             let _ = l.append_child(&s);
