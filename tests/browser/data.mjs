@@ -126,6 +126,7 @@ async function main() {
     const s1 = await fieldValue(page, 'successes1');
     check('two proportions: successes filled from the yes/no column', s1 === '38', s1);
     await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
+    check('edit: the file does not overwrite a typed figure', (await fieldValue(page, 'sd2')) === '5.9' && (await fieldValue(page, 'n2')) === '56', await fieldValue(page, 'sd2'));
 
     // 2. Pasted CSV text.
     await page.click('#new-design');

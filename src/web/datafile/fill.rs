@@ -75,6 +75,11 @@ impl Fill {
             return;
         }
         for (field, text) in fields(s) {
+            // A figure the user typed over the file's one is theirs now.
+            let edited = self.filled.iter().any(|(f, t)| f == field && *t != current(field));
+            if edited {
+                continue;
+            }
             if !self.saved.iter().any(|(f, _)| f == field) {
                 self.saved.push((field.to_string(), current(field)));
             }

@@ -451,7 +451,7 @@ fn show_fill_note() {
     } else if shown > 0 {
         let how = family.map(|f| mapping::describe(mapping::shape(f), &choice)).unwrap_or_default();
         format!(
-            "The summary figures below (marked ▣) come from “{name}” ({how}). Edit any of them to use your own figure instead."
+            "The summary figures below marked ▣ come from “{name}” ({how}). Type over any of them to use your own figure instead; the file will not change it again."
         )
     } else {
         format!("None of the summary figures below comes from “{name}” at the moment.")
