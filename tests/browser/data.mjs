@@ -219,6 +219,13 @@ async function main() {
     const st7 = await choose(page, 'clinic-recovery-data.csv', example);
     check('choose: the example file as a file', st7 === 'ready' && (await fieldValue(page, 'n1')) === '56', st7);
     await shot(page, 'data-section.png');
+    // A narrow window: the section still lays out (screenshot only).
+    await page.setViewportSize({ width: 420, height: 900 });
+    await page.waitForTimeout(300);
+    await shot(page, 'data-section-narrow.png');
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    check('narrow: no sideways scrolling of the page', overflow <= 1, `${overflow} px`);
+    await page.setViewportSize({ width: 1280, height: 900 });
 
     check('no console errors', errors.length === 0, errors.join(' | '));
     check('no request left this machine', offsite.length === 0, offsite.join(' '));

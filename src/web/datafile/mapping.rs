@@ -141,7 +141,10 @@ fn id_like(name: &str) -> bool {
 
 /// Does a level read like a success ("yes", "true", "1", ...)?
 fn success_like(s: &str) -> bool {
-    matches!(s.trim().to_lowercase().as_str(), "yes" | "y" | "true" | "1" | "success" | "positive" | "pass" | "detected" | "ja" | "oui" | "sí" | "si")
+    matches!(
+        s.trim().to_lowercase().as_str(),
+        "yes" | "y" | "true" | "1" | "success" | "positive" | "pass" | "detected" | "ja" | "oui" | "sí" | "si"
+    )
 }
 
 /// Keep what still fits the table, and fill every unanswered role with an
@@ -172,7 +175,10 @@ pub fn complete(t: &Table, s: Shape, old: &Choice, unit: &str) -> Choice {
                 let two = |x: &&&String| column_index(t, x).is_some_and(|i| t.columns[i].levels.len() == 2);
                 let yes_like = |x: &&&String| levels(t, Some(x.as_str())).iter().any(|l| success_like(l));
                 let first = if r == Role::Outcome { free.iter().find(|x| two(x) && yes_like(x)) } else { None };
-                first.or_else(|| free.iter().find(|x| two(x) && !(r == Role::Group && yes_like(x)))).or_else(|| free.iter().find(two)).map(|x| x.to_string())
+                first
+                    .or_else(|| free.iter().find(|x| two(x) && !(r == Role::Group && yes_like(x))))
+                    .or_else(|| free.iter().find(two))
+                    .map(|x| x.to_string())
             }
             Role::Level1 => free.first().map(|x| x.to_string()),
             Role::Level2 => free.first().map(|x| x.to_string()),
@@ -192,9 +198,12 @@ pub fn to_mapping(t: &Table, s: Shape, c: &Choice) -> Result<Mapping, &'static s
     Ok(match s {
         Shape::One => Mapping::OneColumn { column: col(Role::Value)? },
         Shape::Paired => Mapping::Paired { first: col(Role::First)?, second: col(Role::Second)? },
-        Shape::TwoGroups => {
-            Mapping::TwoGroups { value: col(Role::Value)?, group: col(Role::Group)?, level1: text(Role::Level1)?, level2: text(Role::Level2)? }
-        }
+        Shape::TwoGroups => Mapping::TwoGroups {
+            value: col(Role::Value)?,
+            group: col(Role::Group)?,
+            level1: text(Role::Level1)?,
+            level2: text(Role::Level2)?,
+        },
         Shape::Binary => Mapping::Binary { column: col(Role::Outcome)?, success: text(Role::Success)? },
         Shape::TwoGroupsBinary => Mapping::TwoGroupsBinary {
             outcome: col(Role::Outcome)?,

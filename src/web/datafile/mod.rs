@@ -123,8 +123,9 @@ pub fn setup() -> Result<(), JsValue> {
     }
     if let Some(el) = dom::by_id("data-missing") {
         listen(&el, "change", |_| {
-            let tokens: Vec<String> =
-                std::iter::once(String::new()).chain(dom::value("data-missing").lines().map(|l| l.trim().to_string()).filter(|l| !l.is_empty())).collect();
+            let tokens: Vec<String> = std::iter::once(String::new())
+                .chain(dom::value("data-missing").lines().map(|l| l.trim().to_string()).filter(|l| !l.is_empty()))
+                .collect();
             with(|s| s.opts.missing = tokens);
             reread();
         })?;

@@ -143,7 +143,13 @@ pub fn table(name: &str, t: &Table, opts: &ReadOptions, exclude: bool) {
                 },
                 ColumnKind::Empty => "empty".to_string(),
             };
-            vec![c.name.clone(), kind, c.count.to_string(), c.missing.to_string(), if c.bad > 0 { c.bad.to_string() } else { String::new() }]
+            vec![
+                c.name.clone(),
+                kind,
+                c.count.to_string(),
+                c.missing.to_string(),
+                if c.bad > 0 { c.bad.to_string() } else { String::new() },
+            ]
         })
         .collect();
     let cols = dom::text_table("", &["column", "holds", "values", "missing", "not numbers"], &rows, true);
@@ -183,9 +189,16 @@ fn problems(t: &Table, exclude: bool) {
     dom::add(
         &box_,
         "h4",
-        &format!("{} {} in {} {}{more}", p.total, plural(p.total, "problem", "problems"), p.rows.len(), plural(p.rows.len(), "row", "rows")),
+        &format!(
+            "{} {} in {} {}{more}",
+            p.total,
+            plural(p.total, "problem", "problems"),
+            p.rows.len(),
+            plural(p.rows.len(), "row", "rows")
+        ),
     );
-    let rows: Vec<Vec<String>> = p.shown.iter().map(|q| vec![q.row.to_string(), q.column.clone(), q.value.clone(), q.message.clone()]).collect();
+    let rows: Vec<Vec<String>> =
+        p.shown.iter().map(|q| vec![q.row.to_string(), q.column.clone(), q.value.clone(), q.message.clone()]).collect();
     append(&box_, dom::text_table("", &["row in file", "column", "cell", "what is wrong"], &rows, true));
     if let Some(l) = dom::add(&box_, "label", "") {
         if let Some(i) = dom::add(&l, "input", "") {
@@ -199,7 +212,9 @@ fn problems(t: &Table, exclude: bool) {
             let _ = l.append_child(&s);
         }
     }
-    if let Some(p) = dom::add(&box_, "p", "Otherwise a cell that is not a number counts as a missing value of its column. Your file is not changed.") {
+    if let Some(p) =
+        dom::add(&box_, "p", "Otherwise a cell that is not a number counts as a missing value of its column. Your file is not changed.")
+    {
         let _ = p.set_attribute("class", "aside-text");
     }
     dom::replace("data-problems", Some(&box_));
@@ -265,7 +280,13 @@ pub fn summary(s: &DataSummary, sh: Shape) {
         .iter()
         .map(|g| {
             if binary {
-                vec![g.label.clone(), g.n.to_string(), g.successes.map_or("—".into(), |k| k.to_string()), short(g.mean), g.missing.to_string()]
+                vec![
+                    g.label.clone(),
+                    g.n.to_string(),
+                    g.successes.map_or("—".into(), |k| k.to_string()),
+                    short(g.mean),
+                    g.missing.to_string(),
+                ]
             } else {
                 vec![
                     g.label.clone(),
@@ -347,7 +368,11 @@ pub fn chart_views(s: &DataSummary, values: &[Vec<f64>], sh: Shape, unit: &str) 
     }
     ChartViews {
         histogram: HistogramView { groups: hist, x_label: format!("{what}{u}"), rule },
-        quantile: QuantileView { groups: qq, y_label: format!("{what}{u}"), positions: "Blom’s plotting positions (i − 3/8)/(n + 1/4)".into() },
+        quantile: QuantileView {
+            groups: qq,
+            y_label: format!("{what}{u}"),
+            positions: "Blom’s plotting positions (i − 3/8)/(n + 1/4)".into(),
+        },
     }
 }
 
@@ -380,7 +405,8 @@ pub fn charts(v: Option<&ChartViews>) {
     dom::replace("table-histogram", dom::text_table(&cap, &head, &rows, true).as_ref());
     let (cap, head, rows) = quantile::numbers(&v.quantile);
     dom::replace("table-quantile", dom::text_table(&cap, &head, &rows, true).as_ref());
-    let groups = v.histogram.groups.iter().map(|g| format!("{} (n = {}, mean {})", g.label, g.n, short(g.mean))).collect::<Vec<_>>().join("; ");
+    let groups =
+        v.histogram.groups.iter().map(|g| format!("{} (n = {}, mean {})", g.label, g.n, short(g.mean))).collect::<Vec<_>>().join("; ");
     dom::set_attr("chart-histogram", "aria-label", Some(&format!("Histogram per group: {groups}. The numbers are in the table below.")));
     dom::set_attr("chart-quantile", "aria-label", Some(&format!("Normal quantile plot: {groups}. The numbers are in the table below.")));
 }
