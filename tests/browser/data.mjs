@@ -125,6 +125,8 @@ async function main() {
     await act(page, () => page.click('label.chip:has(input[name="family"][value="two_proportions"])'));
     const s1 = await fieldValue(page, 'successes1');
     check('two proportions: successes filled from the yes/no column', s1 === '38', s1);
+    check('two proportions: no value charts for yes/no outcomes', await page.locator('#data-charts').isHidden());
+    await shot(page, 'data-two-proportions.png');
     await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
     check('edit: the file does not overwrite a typed figure', (await fieldValue(page, 'sd2')) === '5.9' && (await fieldValue(page, 'n2')) === '56', await fieldValue(page, 'sd2'));
 
@@ -203,6 +205,7 @@ async function main() {
     check('paired: read', st11 === 'ready', st11);
     check('paired: before and after picked', await page.locator('input[name="dm-first"][value="before"]').isChecked() && await page.locator('input[name="dm-second"][value="after"]').isChecked());
     check('paired: 4 pairs, 2 rows dropped and said so', (await fieldValue(page, 'n')) === '4' && /2 rows were dropped/.test(await text(page, '#data-notes')), `${await fieldValue(page, 'n')}: ${await text(page, '#data-notes')}`);
+    await shot(page, 'data-paired.png');
     await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
 
     // 8. A binary file named .csv: a message, the page still computes.
