@@ -204,7 +204,7 @@ async function main() {
     const st11 = await choose(page, 'paired.csv', corpus('paired.csv'));
     check('paired: read', st11 === 'ready', st11);
     check('paired: before and after picked', await page.locator('input[name="dm-first"][value="before"]').isChecked() && await page.locator('input[name="dm-second"][value="after"]').isChecked());
-    check('paired: 4 pairs, 2 rows dropped and said so', (await fieldValue(page, 'n')) === '4' && /2 rows were dropped/.test(await text(page, '#data-notes')), `${await fieldValue(page, 'n')}: ${await text(page, '#data-notes')}`);
+    check('paired: 4 pairs, 2 rows dropped and said so', (await fieldValue(page, 'n')) === '4' && /\b2 row.*paired.*left out/.test(await text(page, '#data-notes')), `${await fieldValue(page, 'n')}: ${await text(page, '#data-notes')}`);
     await shot(page, 'data-paired.png');
     await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
 

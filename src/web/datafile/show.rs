@@ -310,23 +310,13 @@ pub fn summary(s: &DataSummary, sh: Shape) {
     };
     let cap = "Per group (SD with n − 1; skewness G1 and excess kurtosis G2, bias-adjusted)";
     dom::replace("data-summary", dom::text_table(if binary { "Per group" } else { cap }, head, &rows, true).as_ref());
-    let mut notes: Vec<String> = Vec::new();
-    if s.dropped_pairs > 0 {
-        notes.push(format!(
-            "{} {} dropped because one side of the pair is missing or not a number.",
-            s.dropped_pairs,
-            plural(s.dropped_pairs, "row was", "rows were")
-        ));
-    }
-    if s.excluded > 0 {
-        notes.push(format!("{} {} with problems left out, as you chose.", s.excluded, plural(s.excluded, "row", "rows")));
-    }
-    notes.extend(s.notes.iter().cloned());
+    // The engine's notes already count dropped pairs and excluded rows.
+    let notes = &s.notes;
     let ul = dom::element("ul", "");
     if let Some(ul) = &ul {
         let _ = ul.set_attribute("class", "notes");
         let _ = ul.set_attribute("id", "data-notes");
-        for n in &notes {
+        for n in notes {
             dom::add(ul, "li", n);
         }
     }
