@@ -154,3 +154,30 @@ impl CellReader {
         CellValue::Text
     }
 }
+
+/// Decode Windows-1252 (WHATWG Encoding Standard, index-windows-1252):
+/// bytes 0x80–0x9F map to the table below, every other byte to the code
+/// point of the same value. Written out instead of linking `encoding_rs`,
+/// whose decoder dispatch pulls every legacy encoding's tables (about
+/// 180 KB) into the page's WebAssembly.
+pub(crate) fn windows_1252(bytes: &[u8]) -> String {
+    const HIGH: [char; 32] = [
+        '\u{20AC}', '\u{81}', '\u{201A}', '\u{192}', '\u{201E}', '\u{2026}', '\u{2020}', '\u{2021}', '\u{2C6}', '\u{2030}',
+        '\u{160}', '\u{2039}', '\u{152}', '\u{8D}', '\u{17D}', '\u{8F}', '\u{90}', '\u{2018}', '\u{2019}', '\u{201C}',
+        '\u{201D}', '\u{2022}', '\u{2013}', '\u{2014}', '\u{2DC}', '\u{2122}', '\u{161}', '\u{203A}', '\u{153}', '\u{9D}',
+        '\u{17E}', '\u{178}',
+    ];
+    bytes.iter().map(|&b| if (0x80..0xA0).contains(&b) { HIGH[(b - 0x80) as usize] } else { b as char }).collect()
+}
+
+#[cfg(test)]
+mod tests {
+    /// Every byte against encoding_rs (Mozilla's implementation of the
+    /// WHATWG standard).
+    #[test]
+    fn windows_1252_matches_encoding_rs() {
+        let all: Vec<u8> = (0..=255).collect();
+        let (want, _, _) = encoding_rs::WINDOWS_1252.decode(&all);
+        assert_eq!(super::windows_1252(&all), want);
+    }
+}

@@ -139,7 +139,7 @@ impl TableBuilder {
         }
         match self.state {
             State::Failed(e) => Err(e),
-            State::Zip(bytes) => super::workbook::read_workbook(&bytes, &self.opts),
+            State::Zip(bytes) => super::read_zip(&bytes, &self.opts),
             State::Sampling(_) => Err(TableError::Empty),
             State::Parsing(mut p) => {
                 p.feed(&[], true)?;
@@ -156,7 +156,7 @@ impl TableBuilder {
         }
         sniff::check_text(&sample)?;
         if let Some(d) = self.opts.delimiter
-            && !d.is_ascii()
+            && (!d.is_ascii() || matches!(d, b'"' | b'\n' | b'\r'))
         {
             return Err(TableError::BadDelimiter(d as char));
         }
@@ -283,7 +283,7 @@ impl Parser {
                             if self.latin1.is_none() {
                                 self.latin1 = Some((line, i));
                             }
-                            encoding_rs::WINDOWS_1252.decode(raw).0.into_owned()
+                            super::cells::windows_1252(raw)
                         }
                     };
                     spans.push(Err(self.fields.len()));

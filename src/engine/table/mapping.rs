@@ -165,7 +165,7 @@ struct Selection {
     excluded: usize,
 }
 
-fn column<'t>(table: &'t Table, index: usize) -> Result<&'t Column, MappingError> {
+fn column(table: &Table, index: usize) -> Result<&Column, MappingError> {
     table.data.get(index).ok_or(MappingError::NoColumn { index, count: table.data.len() })
 }
 

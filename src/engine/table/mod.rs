@@ -31,6 +31,7 @@ mod mapping;
 mod notes;
 mod sniff;
 mod summary;
+#[cfg(feature = "spreadsheets")]
 mod workbook;
 
 pub use cells::{parse_number, CellValue};
@@ -226,12 +227,10 @@ pub enum TableError {
     Spreadsheet(String),
     #[error("the workbook has no sheet named \"{wanted}\"; its sheets are: {available}")]
     NoSuchSheet { wanted: String, available: String },
-    #[error("the delimiter {0:?} is not one byte of plain text (use , ; | or a tab)")]
+    #[error("the delimiter {0:?} cannot separate fields (use , ; | or a tab)")]
     BadDelimiter(char),
     #[error("the file has more than {0} rows; split it or summarise it first")]
     TooManyRows(usize),
-    #[error("{0}")]
-    Limit(String),
 }
 
 /// Read a whole file (CSV/TSV text, .xlsx, .ods) or pasted text. `name`
@@ -244,6 +243,19 @@ pub fn read_table(bytes: &[u8], name: Option<&str>, opts: &ReadOptions) -> Resul
             b.push(bytes)?;
             b.finish()
         }
-        sniff::Container::Zip => workbook::read_workbook(bytes, opts),
+        sniff::Container::Zip => read_zip(bytes, opts),
+    }
+}
+
+/// A zip archive: a spreadsheet when this build reads them.
+fn read_zip(bytes: &[u8], opts: &ReadOptions) -> Result<Table, TableError> {
+    #[cfg(feature = "spreadsheets")]
+    return workbook::read_workbook(bytes, opts);
+    #[cfg(not(feature = "spreadsheets"))]
+    {
+        let _ = (bytes, opts);
+        Err(TableError::Spreadsheet(
+            "this is a spreadsheet or another zip archive, and this edition reads text only: save the sheet as CSV (UTF-8) and load that".into(),
+        ))
     }
 }
