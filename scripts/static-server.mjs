@@ -1,5 +1,5 @@
 // A minimal static file server for dist/, bound to loopback only.
-// Usage: node scripts/static-server.mjs DIR [HOST] [PORT]
+// Usage: node scripts/static-server.mjs DIR [HOST] [PORT]   (DIR is served at /)
 // PORT 0 picks a free port. Prints "listening http://HOST:PORT/" once bound.
 import { createServer } from 'node:http';
 import { readFile, stat } from 'node:fs/promises';
@@ -14,6 +14,7 @@ const types = {
   '.css': 'text/css; charset=utf-8',
   '.wasm': 'application/wasm',
   '.json': 'application/json',
+  '.webmanifest': 'application/manifest+json',
   '.svg': 'image/svg+xml',
   '.png': 'image/png',
   '.ico': 'image/x-icon',
@@ -25,7 +26,12 @@ if (!['127.0.0.1', 'localhost', '::1'].includes(host)) {
   process.exit(2);
 }
 
+// TERN_LOG_REQUESTS=1: print every request received ("request GET /path"),
+// so that a browser test can see exactly what reached the host.
+const logRequests = process.env.TERN_LOG_REQUESTS === '1';
+
 const server = createServer(async (req, res) => {
+  if (logRequests) console.log(`request ${req.method} ${req.url}`);
   try {
     const url = new URL(req.url, 'http://localhost');
     let path = normalize(join(root, decodeURIComponent(url.pathname)));
