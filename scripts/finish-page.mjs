@@ -27,40 +27,13 @@ import { createHash } from 'node:crypto';
 import { copyFileSync, readFileSync, readdirSync, rmSync, writeFileSync, mkdirSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { SERVED_POLICY, policy } from './page-policy.mjs';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 
-/** The served edition's policy. Documented in README ("Publishing"); keep in step. */
-export const SERVED_POLICY = [
-  "default-src 'none'",
-  "script-src 'self' 'wasm-unsafe-eval'",
-  "style-src 'self'",
-  "img-src 'self' data:",
-  "manifest-src 'self'",
-  "worker-src 'self'",
-  "connect-src 'none'",
-  "font-src 'none'",
-  "object-src 'none'",
-  "base-uri 'none'",
-  "form-action 'none'",
-].join('; ');
-
 /** The one-file edition's policy: the two inline blocks by hash, nothing else. */
-function singlePolicy(scriptHash, styleHash) {
-  return [
-    "default-src 'none'",
-    `script-src '${scriptHash}' 'wasm-unsafe-eval'`,
-    `style-src '${styleHash}'`,
-    'img-src data:',
-    "manifest-src 'none'",
-    "worker-src 'none'",
-    "connect-src 'none'",
-    "font-src 'none'",
-    "object-src 'none'",
-    "base-uri 'none'",
-    "form-action 'none'",
-  ].join('; ');
-}
+const singlePolicy = (scriptHash, styleHash) =>
+  policy({ scripts: `'${scriptHash}'`, styles: `'${styleHash}'`, images: 'data:', manifest: "'none'", worker: "'none'" });
 
 const sha256 = (text) => `sha256-${createHash('sha256').update(text).digest('base64')}`;
 const shortHash = (...parts) => {

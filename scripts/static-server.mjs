@@ -4,6 +4,7 @@
 import { createServer } from 'node:http';
 import { readFile, stat } from 'node:fs/promises';
 import { extname, join, normalize, resolve, sep } from 'node:path';
+import { headersFor } from './page-policy.mjs';
 
 const [dirArg = 'dist', host = '127.0.0.1', portArg = '8080'] = process.argv.slice(2);
 const root = resolve(dirArg);
@@ -29,6 +30,8 @@ if (!['127.0.0.1', 'localhost', '::1'].includes(host)) {
 // TERN_LOG_REQUESTS=1: print every request received ("request GET /path"),
 // so that a browser test can see exactly what reached the host.
 const logRequests = process.env.TERN_LOG_REQUESTS === '1';
+// TERN_HEADERS=1: send the headers README documents for hosts that set them.
+const sendHeaders = process.env.TERN_HEADERS === '1';
 
 const server = createServer(async (req, res) => {
   if (logRequests) console.log(`request ${req.method} ${req.url}`);
@@ -52,6 +55,7 @@ const server = createServer(async (req, res) => {
     res.writeHead(200, {
       'content-type': types[extname(path)] || 'application/octet-stream',
       'cache-control': 'no-store',
+      ...(sendHeaders ? headersFor(path) : {}),
     });
     res.end(body);
   } catch (e) {

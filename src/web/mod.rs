@@ -13,6 +13,7 @@ mod demo;
 mod dom;
 mod form;
 mod offline;
+mod page_canvas;
 mod saved;
 mod view;
 

@@ -25,6 +25,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { root, dist, artifacts, launch, text, type } from './lib.mjs';
+import { headersFor } from '../../scripts/page-policy.mjs';
 
 const single = join(root, 'dist-single', 'tern.html');
 const CHARTS = ['chart-sampling', 'chart-by-n', 'chart-tradeoff', 'chart-total'];
@@ -43,11 +44,11 @@ function check(name, ok, detail = '') {
 }
 
 // A static server for `dir` that logs every request it receives.
-function serve(dir) {
+function serve(dir, env = {}) {
   return new Promise((res, rej) => {
     const child = spawn(process.execPath, [join(root, 'scripts', 'static-server.mjs'), dir, '127.0.0.1', '0'], {
       stdio: ['ignore', 'pipe', 'inherit'],
-      env: { ...process.env, TERN_LOG_REQUESTS: '1' },
+      env: { ...process.env, TERN_LOG_REQUESTS: '1', ...env },
     });
     const server = { child, url: '', log: [] };
     const timer = setTimeout(() => rej(new Error('static server did not start within 10 s')), 10000);
@@ -90,12 +91,18 @@ async function quiet(log, quietMs = 700) {
   }
 }
 
-// Every request the browser reports for a context, pages and service workers alike.
+// Every request the browser reports for a context, and every policy
+// violation its pages see from their first script on.
 function record(context) {
   const seen = [];
   context.on('request', (r) => seen.push(r.url()));
+  context.addInitScript(() => {
+    window.ternViolations = [];
+    document.addEventListener('securitypolicyviolation', (e) => window.ternViolations.push(`${e.effectiveDirective} ${e.blockedURI}`));
+  });
   return seen;
 }
+const violations = (page) => page.evaluate(() => window.ternViolations || ['(not recorded)']);
 
 const ready = (page) => page.waitForSelector('#app[data-ready="true"]', { timeout: 30000 });
 const readyMs = (page) => page.evaluate(() => Number(document.getElementById('app').dataset.readyMs));
@@ -169,6 +176,7 @@ async function servedEdition(browser) {
     const after = seen.slice(seenBefore).filter((u) => !u.startsWith('blob:'));
     check('after load: the browser made zero requests (a blob: download aside)', after.length === 0, after.join(', '));
     check('served: no console errors', errors.length === 0, errors.join(' | '));
+    check('served: the page itself breaks no rule of its policy', (await violations(page)).length === 0, (await violations(page)).join(' | '));
 
     // Offline: the network off and the host gone; reload.
     await stop(host);
@@ -220,6 +228,33 @@ async function update(browser) {
     await context.close();
     await stop(host);
     rmSync(tmp, { recursive: true, force: true });
+  }
+}
+
+// A host that sends the documented headers as well as the page's <meta>
+// policy: the page still starts, installs its worker and works offline.
+async function withHeaders(browser) {
+  const readme = readFileSync(join(root, 'README.md'), 'utf8');
+  for (const file of ['index.html', 'sw.js']) {
+    const csp = headersFor(file)['Content-Security-Policy'];
+    check(`headers: README documents the policy for ${file}`, readme.includes(csp), csp);
+  }
+  const host = await serve(dist, { TERN_HEADERS: '1' });
+  const context = await browser.newContext();
+  const page = await context.newPage();
+  try {
+    const response = await page.goto(host.url);
+    check('headers: the host sends the policy', (response.headers()['content-security-policy'] || '').includes("connect-src 'none'"));
+    await ready(page);
+    await page.waitForSelector('#app[data-offline="ready"]', { timeout: 20000 });
+    await stop(host);
+    await context.setOffline(true);
+    await page.reload();
+    await ready(page);
+    await computesDemo(page, 'headers, offline');
+  } finally {
+    await context.close();
+    await stop(host);
   }
 }
 
@@ -328,6 +363,7 @@ async function oneFile(browser, foreignHost) {
     const other = seen.filter((u) => u !== url && !u.startsWith('data:'));
     check('one file: no request but the file itself', other.length === 0, other.join(', '));
     check('one file: no console errors', errors.length === 0, errors.join(' | '));
+    check('one file: the page itself breaks no rule of its policy', (await violations(page)).length === 0, (await violations(page)).join(' | '));
     const r = await attack(page, foreignHost.url);
     check('one file: injected fetch and scripts blocked', r.outcome['fetch foreign'] === 'blocked' && r.leaked === null && r.violations.some((v) => v.startsWith('connect-src')), JSON.stringify(r));
     check('one file: the foreign host received nothing', foreignHost.log.length === 0, foreignHost.log.join(', '));
@@ -436,7 +472,7 @@ async function main() {
   const foreign = await serve(foreignDir);
   const browser = await launch();
   try {
-    for (const [name, part] of [['served', servedEdition], ['update', update], ['sub-folder', subFolder], ['policy', (b) => policy(b, foreign)], ['one file', (b) => oneFile(b, foreign)], ['designs', designs]]) {
+    for (const [name, part] of [['served', servedEdition], ['update', update], ['headers', withHeaders], ['sub-folder', subFolder], ['policy', (b) => policy(b, foreign)], ['one file', (b) => oneFile(b, foreign)], ['designs', designs]]) {
       try {
         await part(browser);
       } catch (e) {
