@@ -85,6 +85,9 @@ function served(dist) {
   html = html.replace(inline[0], '');
   html = html.replace(/<link rel="(modulepreload|preload)"[^>]*>\s*/g, '');
   if (/<script(?![^>]*\bsrc=)/.test(html)) fail('an inline <script> is left in index.html; the policy would block it');
+  // The blank lines the removed tags leave in <head>.
+  const headEnd = html.indexOf('</head>');
+  html = html.slice(0, headEnd).replace(/\n[ \t]*(?=\n)/g, '') + html.slice(headEnd);
 
   const base64 = wasm.toString('base64');
   const wasmJs = `// Tern's WebAssembly module (${wasm.length} bytes), as base64: a script the page's\n// policy allows, where a fetch() of the .wasm would be a connection it forbids.\nexport const TERN_WASM_BASE64 = "${base64}";\n`;

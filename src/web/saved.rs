@@ -87,11 +87,11 @@ pub fn open_from_link() -> bool {
         Ok(()) => {
             form::fill(&[]);
             form::set_design(&design);
-            say("Opened the design from the link. It holds the design only: add your own summary figures to decide.");
+            note("This design was opened from a link. A link holds the design only: add your own summary figures to decide.");
             true
         }
         Err(e) => {
-            say(&format!("The design in this link could not be opened: {e}."));
+            note(&format!("The design in this link could not be opened: {e}. The worked example is shown instead."));
             false
         }
     }
@@ -120,6 +120,13 @@ fn check(design: &Map<String, Value>) -> Result<(), String> {
 
 fn say(text: &str) {
     dom::set_text("keep-msg", text);
+}
+
+/// A note at the top of the page (and in the panel) about an opened link.
+fn note(text: &str) {
+    say(text);
+    dom::set_text("link-note", text);
+    dom::set_hidden("link-note", false);
 }
 
 fn storage() -> Result<web_sys::Storage, String> {

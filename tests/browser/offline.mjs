@@ -147,6 +147,13 @@ async function servedEdition(browser) {
     check('load: the host received only files of the build', atLoad.every((r) => r.startsWith('GET ') && allowed.has(r.slice(4))), atLoad.join(', '));
     check('load: the browser asked nothing of another origin', seen.every((u) => u.startsWith(host.url) || u.startsWith('data:')), seen.filter((u) => !u.startsWith(host.url)).join(', '));
     check('load: the service worker is installed', (await text(page, '#version')).includes('offline use'), await text(page, '#version'));
+    // Installable: chromium's own check finds nothing missing (headless
+    // contexts are private windows, which it notes and which do not count).
+    const cdp = await context.newCDPSession(page);
+    const installErrors = (await cdp.send('Page.getInstallabilityErrors')).installabilityErrors.map((e) => e.errorId).filter((id) => id !== 'in-incognito');
+    const manifestErrors = (await cdp.send('Page.getAppManifest')).errors;
+    check('load: installable (manifest and worker accepted)', installErrors.length === 0 && manifestErrors.length === 0, JSON.stringify({ installErrors, manifestErrors }));
+    await cdp.detach();
     const build = await page.getAttribute('meta[name="tern-build"]', 'content');
     check('version: Cargo version and build id shown', new RegExp(`Tern \\d+\\.\\d+\\.\\d+, build ${build}`).test(await text(page, '#version')), await text(page, '#version'));
 
@@ -447,10 +454,13 @@ async function designs(browser) {
     await ready(other);
     check('share: opening the link loads the design', (await other.inputValue('#f-theta1')) === '-3' && /n = 54 in each group/.test(await text(other, '#size-headline')), await text(other, '#size-headline'));
     check('share: and no data', (await other.inputValue('#f-data-n1')) === '' && (await text(other, '#decide-title')) === 'No decision yet', await text(other, '#decide-title'));
+    await other.screenshot({ path: join(artifacts, 'link-opened.png') });
+    check('share: the opened page says the link held the design only', /design only/.test(await text(other, '#link-note')), await text(other, '#link-note'));
     await other.goto(`${host.url}#design:family=mean_t&alternative=greater&theta0=0&theta1=1&sigma=2&alpha_max=0.7&beta_max=0.2`);
     await other.reload();
     await ready(other);
-    check('share: a bad link is refused, naming the field', /could not be opened.*alpha_max/.test(await text(other, '#keep-msg')), await text(other, '#keep-msg'));
+    check('share: a bad link is refused, naming the field', /could not be opened.*alpha_max/.test(await text(other, '#link-note')), await text(other, '#link-note'));
+    check('share: after a bad link the worked example is shown', /n = 54 in each group/.test(await text(other, '#size-headline')), await text(other, '#size-headline'));
 
     // Delete.
     await page.click('#keep-list [data-delete="0"]');
