@@ -1,13 +1,14 @@
 //! Canvas plumbing: size each canvas for its CSS box and the screen's
 //! devicePixelRatio (crisp on high-DPI screens), draw a chart on it with
-//! plotters-canvas, and put the same numbers in the chart's table.
+//! plotters-canvas (through `PageCanvas`), and put the same numbers in the
+//! chart's table.
 
 use super::charts::prep::Views;
 use super::charts::{self, DrawResult, Look, by_n, prob, sampling, short, table, total_error, tradeoff};
 use super::dom;
 use plotters::coord::Shift;
 use plotters::prelude::*;
-use plotters_canvas::CanvasBackend;
+use super::page_canvas::PageCanvas;
 
 const CHARTS: [&str; 4] = ["chart-sampling", "chart-by-n", "chart-tradeoff", "chart-total"];
 
@@ -23,7 +24,8 @@ fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
     let look = Look::new(dpr);
     // Wide charts get a flatter shape; narrow ones stay readable.
     let css_h = (css_w * 0.62).clamp(260.0, 400.0).round();
-    let _ = canvas.set_attribute("style", &format!("height:{css_h}px"));
+    // Through the CSSOM: the page's policy refuses style attributes.
+    let _ = canvas.style().set_property("height", &format!("{css_h}px"));
     let (w, h) = ((css_w * look.scale).round() as u32, (css_h * look.scale).round() as u32);
     if canvas.width() != w {
         canvas.set_width(w);
@@ -35,11 +37,11 @@ fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
 }
 
 /// A chart drawn on the canvas backend.
-type Painter<'a> = &'a dyn Fn(&DrawingArea<CanvasBackend, Shift>, &Look) -> DrawResult<CanvasBackend>;
+type Painter<'a> = &'a dyn Fn(&DrawingArea<PageCanvas, Shift>, &Look) -> DrawResult<PageCanvas>;
 
 fn paint(id: &str, draw: Painter<'_>) {
     let Some((canvas, look)) = prepare(id) else { return };
-    let Some(backend) = CanvasBackend::with_canvas_object(canvas) else { return };
+    let Some(backend) = PageCanvas::new(canvas) else { return };
     let root = backend.into_drawing_area();
     if let Err(e) = draw(&root, &look).and_then(|_| root.present()) {
         web_sys::console::warn_1(&format!("chart {id} could not be drawn: {e}").into());

@@ -12,6 +12,9 @@ pub mod charts;
 mod demo;
 mod dom;
 mod form;
+mod offline;
+mod page_canvas;
+mod saved;
 mod view;
 
 use crate::engine::request::{self, Answer, RequestError};
@@ -107,7 +110,11 @@ fn setup() -> Result<(), JsValue> {
     redraw.forget();
     STATE.with(|s| s.borrow_mut().redraw = Some(redraw_fn));
     listen(&window, "resize", |_| schedule_redraw())?;
-    demo::load_demo();
+    offline::setup()?;
+    saved::setup()?;
+    if !saved::open_from_link() {
+        demo::load_demo();
+    }
     recompute();
     dom::set_attr("app", "data-ready", Some("true"));
     // Milliseconds from navigation start to the demo drawn (read by the
