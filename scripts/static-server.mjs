@@ -1,9 +1,10 @@
 // A minimal static file server for dist/, bound to loopback only.
-// Usage: node scripts/static-server.mjs DIR [HOST] [PORT]
+// Usage: node scripts/static-server.mjs DIR [HOST] [PORT]   (DIR is served at /)
 // PORT 0 picks a free port. Prints "listening http://HOST:PORT/" once bound.
 import { createServer } from 'node:http';
 import { readFile, stat } from 'node:fs/promises';
 import { extname, join, normalize, resolve, sep } from 'node:path';
+import { headersFor } from './page-policy.mjs';
 
 const [dirArg = 'dist', host = '127.0.0.1', portArg = '8080'] = process.argv.slice(2);
 const root = resolve(dirArg);
@@ -14,6 +15,7 @@ const types = {
   '.css': 'text/css; charset=utf-8',
   '.wasm': 'application/wasm',
   '.json': 'application/json',
+  '.webmanifest': 'application/manifest+json',
   '.svg': 'image/svg+xml',
   '.png': 'image/png',
   '.ico': 'image/x-icon',
@@ -25,7 +27,14 @@ if (!['127.0.0.1', 'localhost', '::1'].includes(host)) {
   process.exit(2);
 }
 
+// TERN_LOG_REQUESTS=1: print every request received ("request GET /path"),
+// so that a browser test can see exactly what reached the host.
+const logRequests = process.env.TERN_LOG_REQUESTS === '1';
+// TERN_HEADERS=1: send the headers README documents for hosts that set them.
+const sendHeaders = process.env.TERN_HEADERS === '1';
+
 const server = createServer(async (req, res) => {
+  if (logRequests) console.log(`request ${req.method} ${req.url}`);
   try {
     const url = new URL(req.url, 'http://localhost');
     let path = normalize(join(root, decodeURIComponent(url.pathname)));
@@ -46,6 +55,7 @@ const server = createServer(async (req, res) => {
     res.writeHead(200, {
       'content-type': types[extname(path)] || 'application/octet-stream',
       'cache-control': 'no-store',
+      ...(sendHeaders ? headersFor(path) : {}),
     });
     res.end(body);
   } catch (e) {

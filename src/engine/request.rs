@@ -20,7 +20,9 @@ use serde_json::{Map, Value};
 pub const CAUTION: &str = "Decision support only: Tern does not replace a pre-registered analysis plan, a qualified \
 statistician, regulatory guidance or local law, least of all for clinical or personnel decisions.";
 
-const DESIGN_FIELDS: [&str; 14] = [
+/// The fields that describe a design (what the page may keep, export or
+/// share); `n`, `data` and `curves` are the request's other fields.
+pub const DESIGN_FIELDS: [&str; 14] = [
     "family", "alternative", "theta0", "theta1", "sigma", "sigma1", "sigma2", "d", "p1", "p2", "ratio", "alpha_max", "beta_max",
     "weight",
 ];

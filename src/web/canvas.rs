@@ -1,13 +1,14 @@
 //! Canvas plumbing: size each canvas for its CSS box and the screen's
 //! devicePixelRatio (crisp on high-DPI screens), draw a chart on it with
-//! plotters-canvas, and put the same numbers in the chart's table.
+//! plotters-canvas (through `PageCanvas`), and put the same numbers in the
+//! chart's table.
 
 use super::charts::prep::Views;
 use super::charts::{self, DrawResult, Look, by_n, prob, sampling, short, table, total_error, tradeoff};
 use super::dom;
 use plotters::coord::Shift;
 use plotters::prelude::*;
-use plotters_canvas::CanvasBackend;
+use super::page_canvas::PageCanvas;
 
 const CHARTS: [&str; 4] = ["chart-sampling", "chart-by-n", "chart-tradeoff", "chart-total"];
 
@@ -25,7 +26,8 @@ fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
     // A chart may ask for more height (data-min-height, CSS pixels).
     let min_h = canvas.get_attribute("data-min-height").and_then(|v| v.parse::<f64>().ok()).unwrap_or(260.0).clamp(260.0, 800.0);
     let css_h = (css_w * 0.62).clamp(min_h, 400.0_f64.max(min_h)).round();
-    let _ = canvas.set_attribute("style", &format!("height:{css_h}px"));
+    // Through the CSSOM: the page's policy refuses style attributes.
+    let _ = canvas.style().set_property("height", &format!("{css_h}px"));
     let (w, h) = ((css_w * look.scale).round() as u32, (css_h * look.scale).round() as u32);
     if canvas.width() != w {
         canvas.set_width(w);
@@ -37,11 +39,11 @@ fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
 }
 
 /// A chart drawn on the canvas backend.
-pub(super) type Painter<'a> = &'a dyn Fn(&DrawingArea<CanvasBackend, Shift>, &Look) -> DrawResult<CanvasBackend>;
+pub(super) type Painter<'a> = &'a dyn Fn(&DrawingArea<PageCanvas, Shift>, &Look) -> DrawResult<PageCanvas>;
 
 pub(super) fn paint(id: &str, draw: Painter<'_>) {
     let Some((canvas, look)) = prepare(id) else { return };
-    let Some(backend) = CanvasBackend::with_canvas_object(canvas) else { return };
+    let Some(backend) = PageCanvas::new(canvas) else { return };
     let root = backend.into_drawing_area();
     if let Err(e) = draw(&root, &look).and_then(|_| root.present()) {
         web_sys::console::warn_1(&format!("chart {id} could not be drawn: {e}").into());

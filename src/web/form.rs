@@ -508,3 +508,25 @@ pub fn fill(values: &[(&str, &str)]) {
     dom::set_value("f-unit", get("unit").unwrap_or(""));
     dom::set_value("f-notes", get("notes").unwrap_or(""));
 }
+
+/// Put a design (the engine's field names, as `tern run` reads them) into
+/// the form: the design fields and `n`; the summary figures, the unit and
+/// the notes stay as they are. A standardised `d` becomes θ0 = 0, σ = 1,
+/// θ1 = d, as the engine reads it.
+pub fn set_design(design: &Map<String, Value>) {
+    let family = design.get("family").and_then(Value::as_str).and_then(Family::from_id);
+    for f in all_fields().filter(|f| f.part != Part::Data) {
+        dom::set_value(&input_id(f.name), "");
+    }
+    for key in ["family", "alternative"] {
+        dom::check_radio(key, design.get(key).and_then(Value::as_str));
+    }
+    for (key, value) in design {
+        let Value::Number(x) = value else { continue };
+        if key == "d" {
+            dom::set_value(&input_id("theta0"), "0");
+            dom::set_value(&input_id("sigma"), "1");
+        }
+        dom::set_value(&input_id(&page_name(family, key)), &x.to_string());
+    }
+}

@@ -13,6 +13,9 @@ mod datafile;
 mod demo;
 mod dom;
 mod form;
+mod offline;
+mod page_canvas;
+mod saved;
 mod view;
 
 use crate::engine::request::{self, Answer, RequestError};
@@ -108,8 +111,12 @@ fn setup() -> Result<(), JsValue> {
     redraw.forget();
     STATE.with(|s| s.borrow_mut().redraw = Some(redraw_fn));
     listen(&window, "resize", |_| schedule_redraw())?;
+    offline::setup()?;
+    saved::setup()?;
     datafile::setup()?;
-    demo::load_demo();
+    if !saved::open_from_link() {
+        demo::load_demo();
+    }
     recompute();
     dom::set_attr("app", "data-ready", Some("true"));
     // Milliseconds from navigation start to the demo drawn (read by the

@@ -50,11 +50,11 @@ async function canvasInfo(page, id) {
 // A full-page screenshot. The caution bar sticks to the bottom of the
 // window, which a full-page capture would freeze in mid-page over the form,
 // so it is laid out in place for the capture only.
+// (Through the element's style: the page's policy refuses added style sheets.)
 async function fullPage(page, name) {
-  await page.addStyleTag({ content: '.caution { position: static !important; }' }).then(async (tag) => {
-    await page.screenshot({ path: join(artifacts, name), fullPage: true });
-    await tag.evaluate((el) => el.remove());
-  });
+  await page.evaluate(() => { document.querySelector('.caution').style.position = 'static'; });
+  await page.screenshot({ path: join(artifacts, name), fullPage: true });
+  await page.evaluate(() => { document.querySelector('.caution').style.position = ''; });
 }
 
 // Screenshots of the sampling and by-n charts under a name.
@@ -69,8 +69,9 @@ const CHARTS = ['chart-sampling', 'chart-by-n', 'chart-tradeoff', 'chart-total']
 
 async function main() {
   if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/index.html is missing: run scripts/build-page first');
-  const wasmFile = readdirSync(dist).find((f) => f.endsWith('.wasm'));
-  const wasm = readFileSync(join(dist, wasmFile));
+  // The module ships as base64 in a script (scripts/finish-page.mjs).
+  const wasmFile = readdirSync(dist).find((f) => f.endsWith('_wasm.js'));
+  const wasm = Buffer.from(readFileSync(join(dist, wasmFile), 'utf8').match(/"([A-Za-z0-9+/=]+)"/)[1], 'base64');
   const { child, url } = await startServer();
   console.log(`server pid ${child.pid} at ${url}`);
   const browser = await launch();

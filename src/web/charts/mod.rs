@@ -254,25 +254,30 @@ pub fn hatch<DB: DrawingBackend>(
     let to_data = |px: f64, py: f64| (xr.start + px / w * (xr.end - xr.start), yr.start + py / h * (yr.end - yr.start));
     let spacing = 7.0 * look.scale;
     let step = 1.5 * look.scale;
+    // Each hatch line is straight, so a run inside the region is drawn
+    // from its first to its last point: two canvas calls instead of one
+    // per sampled point (the sampling only finds where the region ends).
     let mut paths: Vec<Vec<(f64, f64)>> = Vec::new();
     let mut c = -h;
     while c < w {
-        let mut run: Vec<(f64, f64)> = Vec::new();
+        let mut run: Option<((f64, f64), (f64, f64))> = None;
         let mut t = 0.0;
         while t <= h {
             let (px, py) = (c + t, t);
             let p = to_data(px, py);
             if px >= 0.0 && px <= w && inside(p.0, p.1) {
-                run.push(p);
-            } else if run.len() > 1 {
-                paths.push(std::mem::take(&mut run));
-            } else {
-                run.clear();
+                run = Some(run.map_or((p, p), |(a, _)| (a, p)));
+            } else if let Some((a, b)) = run.take()
+                && a != b
+            {
+                paths.push(vec![a, b]);
             }
             t += step;
         }
-        if run.len() > 1 {
-            paths.push(run);
+        if let Some((a, b)) = run
+            && a != b
+        {
+            paths.push(vec![a, b]);
         }
         c += spacing;
     }

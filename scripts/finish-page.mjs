@@ -1,0 +1,182 @@
+// Turn trunk's output into Tern's two editions, private by construction.
+//
+//   node scripts/finish-page.mjs DIST            the served edition, in place
+//   node scripts/finish-page.mjs DIST --single OUT.html
+//                                                the one-file edition, from a
+//                                                DIST already finished
+//
+// Served edition (DIST/): trunk's inline bootstrap fetch()es the .wasm,
+// which a policy with connect-src 'none' forbids. So the module's bytes
+// become a same-origin script (tern-HASH_wasm.js, base64), a small external
+// boot script starts them with init({ module_or_path: bytes }), and the
+// page's Content-Security-Policy allows scripts, styles and the manifest
+// from the page's own folder only: no inline script, no connection. A
+// service worker (sw.js) keeps exactly the files listed here for offline
+// use, and a web app manifest makes the page installable. Every URL is
+// relative, so DIST works from any folder of a static host.
+//
+// One-file edition (OUT.html): the same page with the style sheet, the
+// wasm-bindgen glue (exports removed), the base64 module and the boot code
+// inlined; its policy allows exactly those two inline blocks by their
+// SHA-256 hashes. No service worker and no manifest: it works from file://.
+//
+// Both carry <meta name="tern-build"> (a hash of the built files) and
+// <meta name="tern-edition">, which the page shows beside its version.
+
+import { createHash } from 'node:crypto';
+import { copyFileSync, readFileSync, readdirSync, rmSync, writeFileSync, mkdirSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { SERVED_POLICY, policy } from './page-policy.mjs';
+
+const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
+
+/** The one-file edition's policy: the two inline blocks by hash, nothing else. */
+const singlePolicy = (scriptHash, styleHash) =>
+  policy({ scripts: `'${scriptHash}'`, styles: `'${styleHash}'`, images: 'data:', manifest: "'none'", worker: "'none'" });
+
+const sha256 = (text) => `sha256-${createHash('sha256').update(text).digest('base64')}`;
+const shortHash = (...parts) => {
+  const h = createHash('sha256');
+  for (const p of parts) h.update(p);
+  return h.digest('hex').slice(0, 16);
+};
+
+function fail(message) {
+  console.error(`finish-page: ${message}`);
+  process.exit(1);
+}
+
+function one(list, what) {
+  if (list.length !== 1) fail(`expected exactly one ${what}, found ${list.length} (${list.join(', ')})`);
+  return list[0];
+}
+
+function setPolicy(html, policy) {
+  const re = /<meta http-equiv="Content-Security-Policy" content="[^"]*">/;
+  if (!re.test(html)) fail('index.html has no <meta http-equiv="Content-Security-Policy" content="..."> to set');
+  return html.replace(re, `<meta http-equiv="Content-Security-Policy" content="${policy}">`);
+}
+
+function setMeta(html, name, content) {
+  const tag = `<meta name="${name}" content="${content}">`;
+  const re = new RegExp(`<meta name="${name}" content="[^"]*">`);
+  return re.test(html) ? html.replace(re, tag) : html.replace('</title>', `</title>\n  ${tag}`);
+}
+
+// How the boot code turns base64 into bytes: the native decoder where the
+// browser has one, else atob.
+const DECODE = `(Uint8Array.fromBase64 ? Uint8Array.fromBase64(TERN_WASM_BASE64) : Uint8Array.from(atob(TERN_WASM_BASE64), (c) => c.charCodeAt(0)))`;
+
+function served(dist) {
+  let html = readFileSync(join(dist, 'index.html'), 'utf8');
+  const files = readdirSync(dist);
+  const wasmName = one(files.filter((f) => f.endsWith('.wasm')), '.wasm file from trunk (was DIST already finished?)');
+  const glueName = one(files.filter((f) => /^tern-[0-9a-f]+\.js$/.test(f)), 'wasm-bindgen glue tern-HASH.js');
+  const cssName = one(files.filter((f) => f.endsWith('.css')), 'style sheet');
+  const wasm = readFileSync(join(dist, wasmName));
+  const glue = readFileSync(join(dist, glueName), 'utf8');
+  const css = readFileSync(join(dist, cssName), 'utf8');
+
+  // trunk's bootstrap: one inline module script that fetches the .wasm,
+  // and preload links for the glue and the .wasm (a fetch, too).
+  const inline = html.match(/<script type="module"[^>]*>[\s\S]*?<\/script>/g) || [];
+  if (inline.length !== 1 || !inline[0].includes(glueName)) fail(`expected trunk's one inline bootstrap importing ${glueName}`);
+  html = html.replace(inline[0], '');
+  html = html.replace(/<link rel="(modulepreload|preload)"[^>]*>\s*/g, '');
+  if (/<script(?![^>]*\bsrc=)/.test(html)) fail('an inline <script> is left in index.html; the policy would block it');
+  // The blank lines the removed tags leave in <head>.
+  const headEnd = html.indexOf('</head>');
+  html = html.slice(0, headEnd).replace(/\n[ \t]*(?=\n)/g, '') + html.slice(headEnd);
+
+  const base64 = wasm.toString('base64');
+  const wasmJs = `// Tern's WebAssembly module (${wasm.length} bytes), as base64: a script the page's\n// policy allows, where a fetch() of the .wasm would be a connection it forbids.\nexport const TERN_WASM_BASE64 = "${base64}";\n`;
+  const wasmJsName = glueName.replace(/\.js$/, '_wasm.js');
+  const boot = [
+    "// Starts Tern: the glue from trunk's wasm-bindgen, the module's bytes from a",
+    "// same-origin script, no fetch(). Generated by scripts/finish-page.mjs.",
+    `import init, * as bindings from './${glueName}';`,
+    `import { TERN_WASM_BASE64 } from './${wasmJsName}';`,
+    `await init({ module_or_path: ${DECODE} });`,
+    'window.wasmBindings = bindings;',
+    '',
+  ].join('\n');
+  const build = shortHash(wasm, glue, css, html);
+  const bootName = `boot-${shortHash(boot)}.js`;
+
+  writeFileSync(join(dist, wasmJsName), wasmJs);
+  writeFileSync(join(dist, bootName), boot);
+  rmSync(join(dist, wasmName));
+  copyFileSync(join(root, 'www', 'manifest.webmanifest'), join(dist, 'manifest.webmanifest'));
+  copyFileSync(join(root, 'www', 'icon.svg'), join(dist, 'icon.svg'));
+
+  html = setPolicy(html, SERVED_POLICY);
+  html = setMeta(html, 'tern-build', build);
+  html = setMeta(html, 'tern-edition', 'served');
+  html = html.replace('</head>', `  <link rel="manifest" href="manifest.webmanifest">\n  <link rel="modulepreload" href="./${glueName}">\n  <link rel="modulepreload" href="./${wasmJsName}">\n  <script type="module" src="./${bootName}"></script>\n</head>`);
+  writeFileSync(join(dist, 'index.html'), html);
+
+  // The service worker keeps exactly these files (every file of DIST but
+  // itself) and answers nothing else.
+  const kept = readdirSync(dist).filter((f) => f !== 'sw.js').sort();
+  const template = readFileSync(join(root, 'www', 'sw.js'), 'utf8');
+  const sw = template
+    .replace("'__TERN_BUILD__'", JSON.stringify(build))
+    .replace("['__TERN_FILES__']", JSON.stringify(kept));
+  if (sw === template) fail('www/sw.js lacks the __TERN_BUILD__ / __TERN_FILES__ placeholders');
+  writeFileSync(join(dist, 'sw.js'), sw);
+  console.log(`finish-page: served edition in ${dist}: build ${build}, ${kept.length} files kept offline (${kept.join(', ')})`);
+}
+
+function single(dist, out) {
+  let html = readFileSync(join(dist, 'index.html'), 'utf8');
+  const files = readdirSync(dist);
+  const glueName = one(files.filter((f) => /^tern-[0-9a-f]+\.js$/.test(f)), 'wasm-bindgen glue tern-HASH.js (run the served step first)');
+  const wasmJsName = one(files.filter((f) => f.endsWith('_wasm.js')), 'tern-HASH_wasm.js');
+  const cssName = one(files.filter((f) => f.endsWith('.css')), 'style sheet');
+  let glue = readFileSync(join(dist, glueName), 'utf8');
+  const wasmJs = readFileSync(join(dist, wasmJsName), 'utf8');
+  const css = readFileSync(join(dist, cssName), 'utf8');
+
+  // The glue as a plain module body: its exports become local names, which
+  // the boot code hands to window.wasmBindings as trunk's bootstrap does.
+  const exported = [...glue.matchAll(/^export (?:async )?(?:function|class|const|let) ([A-Za-z_$][\w$]*)/gm)].map((m) => m[1]);
+  glue = glue.replace(/^export (?=(?:async )?(?:function|class|const|let) )/gm, '');
+  const tail = glue.match(/^export \{[^}]*\};?\s*$/gm) || [];
+  const initName = (glue.match(/(\w+) as default/) || [])[1];
+  if (!initName) fail(`no "X as default" export in ${glueName}`);
+  for (const t of tail) glue = glue.replace(t, '');
+  if (/^\s*export\b/m.test(glue)) fail(`an export is left in ${glueName}: ${glue.match(/^\s*export\b.*$/m)[0]}`);
+  const base64 = (wasmJs.match(/TERN_WASM_BASE64 = "([A-Za-z0-9+/=]+)"/) || [])[1];
+  if (!base64) fail(`no base64 module in ${wasmJsName}`);
+  const bindings = [...new Set(exported.concat(['initSync']))].filter((n) => n !== initName && new RegExp(`\\b(function|class|const|let) ${n}\\b`).test(glue));
+  const script = [
+    glue,
+    '// Tern, one-file edition: the module inlined as base64, started without fetch().',
+    '{',
+    `  const TERN_WASM_BASE64 = "${base64}";`,
+    `  await ${initName}({ module_or_path: ${DECODE} });`,
+    `  window.wasmBindings = { ${bindings.join(', ')} };`,
+    '}',
+  ].join('\n');
+
+  html = html.replace(/\s*<link rel="(modulepreload|manifest)"[^>]*>/g, '');
+  html = html.replace(/\s*<script type="module" src="[^"]*"><\/script>/g, '');
+  html = html.replace(/<link rel="stylesheet"[^>]*>/, () => `<style>${css}</style>`);
+  if (/<link rel="stylesheet"/.test(html) || /<script[^>]*\bsrc=/.test(html)) fail('a file reference is left in the one-file edition');
+  html = html.replace('</head>', () => `<script type="module">${script}</script>\n</head>`);
+  html = setPolicy(html, singlePolicy(sha256(script), sha256(css)));
+  html = setMeta(html, 'tern-edition', 'single');
+  mkdirSync(dirname(out), { recursive: true });
+  writeFileSync(out, html);
+  console.log(`finish-page: one-file edition ${out}: ${Buffer.byteLength(html)} bytes`);
+}
+
+const [dist, flag, out] = process.argv.slice(2);
+if (!dist) fail('usage: finish-page.mjs DIST [--single OUT.html]');
+if (flag === '--single') {
+  if (!out) fail('--single needs an output file');
+  single(resolve(dist), resolve(out));
+} else {
+  served(resolve(dist));
+}

@@ -1,0 +1,106 @@
+// The one-file edition from file:// in Debian's Firefox ESR, driven by
+// puppeteer-core over WebDriver BiDi (no browser download: the executable
+// is /usr/bin/firefox-esr). Checks that the page starts, computes the demo's
+// design and decision, draws the charts, recomputes on input and makes no
+// request but the file itself. Skips (exit 0, says so) when Firefox is absent.
+//
+// Usage: node tests/browser/firefox.mjs   (after scripts/build-single)
+
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import puppeteer from 'puppeteer-core';
+import { root, artifacts } from './lib.mjs';
+
+const FIREFOX = '/usr/bin/firefox-esr';
+const single = join(root, 'dist-single', 'tern.html');
+const CHARTS = ['chart-sampling', 'chart-by-n', 'chart-tradeoff', 'chart-total'];
+
+let passed = 0;
+let failed = 0;
+function check(name, ok, detail = '') {
+  if (ok) {
+    passed += 1;
+    console.log(`ok   ${name}`);
+  } else {
+    failed += 1;
+    console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`);
+  }
+}
+
+async function main() {
+  if (!existsSync(single)) throw new Error('dist-single/tern.html is missing: run scripts/build-single first');
+  const browser = await puppeteer.launch({
+    browser: 'firefox',
+    executablePath: FIREFOX,
+    headless: true,
+    // No update checks, telemetry or other outside connections of its own.
+    extraPrefsFirefox: {
+      'app.update.enabled': false,
+      'browser.safebrowsing.malware.enabled': false,
+      'browser.safebrowsing.phishing.enabled': false,
+      'datareporting.policy.dataSubmissionEnabled': false,
+      'network.captive-portal-service.enabled': false,
+      'network.connectivity-service.enabled': false,
+    },
+  });
+  try {
+    const page = await browser.newPage();
+    await page.setViewport({ width: 1280, height: 900 });
+    const url = pathToFileURL(single).href;
+    const requests = [];
+    const errors = [];
+    page.on('request', (r) => requests.push(r.url()));
+    page.on('pageerror', (e) => errors.push(String(e)));
+    page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+    await page.goto(url);
+    await page.waitForSelector('#app[data-ready="true"]', { timeout: 30000 });
+    const readyMs = await page.evaluate(() => Number(document.getElementById('app').dataset.readyMs));
+    const txt = (sel) => page.$eval(sel, (e) => e.innerText);
+    check('firefox, file://: sample size computed', /n = 54 in each group/.test(await txt('#size-headline')), await txt('#size-headline'));
+    check('firefox, file://: decision computed', (await txt('#decide-title')) === 'Reject H0', await txt('#decide-title'));
+    for (const id of CHARTS) {
+      const ink = await page.evaluate((id) => {
+        const c = document.getElementById(id);
+        const { data } = c.getContext('2d').getImageData(0, 0, c.width, c.height);
+        let n = 0;
+        for (let i = 0; i < data.length; i += 4) if (data[i] < 235 || data[i + 1] < 235 || data[i + 2] < 235) n += 1;
+        return n / (data.length / 4);
+      }, id);
+      check(`firefox, file://: ${id} drawn`, ink > 0.02, String(ink));
+    }
+    const before = await page.evaluate(() => Number(document.getElementById('app').dataset.updates));
+    await page.$eval('#f-sigma', (e) => { e.value = '7'; e.dispatchEvent(new Event('input', { bubbles: true })); });
+    await page.waitForFunction((n) => Number(document.getElementById('app').dataset.updates) > n, {}, before);
+    check('firefox, file://: an input change recomputes', !/n = 54 /.test(await txt('#size-headline')), await txt('#size-headline'));
+    const fetched = await page.evaluate(async () => {
+      try {
+        await fetch('http://127.0.0.1:9/never');
+        return 'fetched';
+      } catch {
+        return 'blocked';
+      }
+    });
+    check('firefox, file://: an injected fetch is blocked', fetched === 'blocked');
+    const other = requests.filter((u) => u !== url && !u.startsWith('data:'));
+    check('firefox, file://: no request but the file itself', other.length === 0, other.join(', '));
+    check('firefox, file://: no errors', errors.length === 0, errors.join(' | '));
+    await page.screenshot({ path: join(artifacts, 'firefox-one-file.png') });
+    console.log(`figure: one-file edition in Firefox from file://: demo drawn ${readyMs.toFixed(0)} ms after navigation start`);
+  } finally {
+    await browser.close();
+  }
+}
+
+if (!existsSync(FIREFOX)) {
+  console.log(`firefox test skipped: ${FIREFOX} is not installed (scripts/install-tools installs it)`);
+  process.exit(0);
+}
+try {
+  await main();
+} catch (e) {
+  failed += 1;
+  console.log(`FAIL firefox test stopped: ${e.stack || e}`);
+}
+console.log(`${passed} passed, ${failed} failed`);
+process.exit(failed === 0 ? 0 : 1);
