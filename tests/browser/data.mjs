@@ -139,6 +139,10 @@ async function main() {
     check('paste: read', st2 === 'ready', st2);
     check('paste: n and mean filled', (await fieldValue(page, 'n')) === '5' && Math.abs(Number(await fieldValue(page, 'mean')) - 4.94) < 1e-9, `${await fieldValue(page, 'n')} ${await fieldValue(page, 'mean')}`);
 
+    // Cells copied from a spreadsheet: tabs between columns, decimal commas.
+    const st2b = await paste(page, 'arm\tscore\nA\t4,5\nA\t5,5\nB\t3,0\n');
+    check('paste from a spreadsheet: tabs and decimal commas', st2b === 'ready' && await page.locator('input[name="dr-delimiter"][value="tab"]').isChecked() && (await fieldValue(page, 'mean')) === '4.333333333', `${st2b} ${await fieldValue(page, 'mean')}`);
+
     // 3. A dropped file (semicolons, decimal commas).
     const st3 = await drop(page, 'scores.csv', 'id;score\n1;4,5\n2;5,25\n3;3,75\n4;6,5\n');
     check('drop: read', st3 === 'ready', st3);
