@@ -214,6 +214,11 @@ async function main() {
     await shot(page, 'data-paired.png');
     await act(page, () => page.click('label.chip:has(input[name="family"][value="two_means_pooled"])'));
 
+    // A cell of many kilobytes is shortened on the page (the file is not).
+    const st12 = await choose(page, 'long_field.csv', corpus('long_field.csv'));
+    const longest = await page.evaluate(() => Math.max(0, ...[...document.querySelectorAll('#data-preview td')].map((td) => td.textContent.length)));
+    check('long cell: read, shown shortened', st12 === 'ready' && longest <= 61, `${st12}, longest cell ${longest} characters`);
+
     // 8. A binary file named .csv: a message, the page still computes.
     const junk = Buffer.from(Array.from({ length: 4096 }, (_, i) => (i * 7919 + 13) % 256));
     const st6 = await choose(page, 'photo.csv', junk, 'text/csv');

@@ -162,12 +162,24 @@ pub fn table(name: &str, t: &Table, opts: &ReadOptions, exclude: bool) {
         .preview
         .iter()
         .enumerate()
-        .map(|(i, r)| std::iter::once(t.preview_rows.get(i).map_or(String::new(), |n| n.to_string())).chain(r.iter().cloned()).collect())
+        .map(|(i, r)| {
+            std::iter::once(t.preview_rows.get(i).map_or(String::new(), |n| n.to_string())).chain(r.iter().map(|c| clip(c))).collect()
+        })
         .collect();
     let cap = format!("The first {} of {} data rows", t.preview.len(), t.n_rows);
     dom::replace("data-preview", dom::text_table(&cap, &head, &rows, true).as_ref());
 
     problems(t, exclude);
+}
+
+/// Cell text for a table on the page: at most 60 characters, the rest
+/// replaced by "…" (a single cell may hold a whole paragraph).
+fn clip(text: &str) -> String {
+    const MOST: usize = 60;
+    match text.char_indices().nth(MOST) {
+        Some((at, _)) => format!("{}…", &text[..at]),
+        None => text.to_string(),
+    }
 }
 
 fn append(parent: &Element, child: Option<Element>) {
@@ -198,7 +210,7 @@ fn problems(t: &Table, exclude: bool) {
         ),
     );
     let rows: Vec<Vec<String>> =
-        p.shown.iter().map(|q| vec![q.row.to_string(), q.column.clone(), q.value.clone(), q.message.clone()]).collect();
+        p.shown.iter().map(|q| vec![q.row.to_string(), clip(&q.column), clip(&q.value), q.message.clone()]).collect();
     append(&box_, dom::text_table("", &["row in file", "column", "cell", "what is wrong"], &rows, true));
     if let Some(l) = dom::add(&box_, "label", "") {
         if let Some(i) = dom::add(&l, "input", "") {
