@@ -368,6 +368,18 @@ fn one_non_number_in_100000_rows_is_found() {
 }
 
 #[test]
+fn a_first_record_longer_than_the_sample_is_read() {
+    let text = format!("\"{}\",1\n\"short\",2\n", "x".repeat(100_000));
+    let whole = read_table(text.as_bytes(), None, &ReadOptions::default()).unwrap();
+    assert_eq!((whole.n_rows, whole.header), (2, false));
+    let mut b = TableBuilder::new(ReadOptions::default());
+    for chunk in text.as_bytes().chunks(4096) {
+        b.push(chunk).unwrap();
+    }
+    assert_eq!(format!("{:?}", b.finish().unwrap()), format!("{whole:?}"));
+}
+
+#[test]
 fn many_problems_are_counted_and_the_first_are_shown() {
     let mut text = String::from("x\n");
     for i in 0..500 {

@@ -227,7 +227,12 @@ impl ColumnsBuilder {
 
     /// The finished table.
     pub fn finish(self, format: Format, header: bool, extra: Vec<Problem>, notices: Vec<String>) -> Result<Table, TableError> {
-        let ColumnsBuilder { reader, columns, row_numbers, preview, preview_rows, shape, shape_total, shape_rows, .. } = self;
+        let ColumnsBuilder { reader, mut columns, row_numbers, preview, preview_rows, shape, shape_total, shape_rows, .. } = self;
+        // Only a numeric column's non-numbers are problems: a text column
+        // need not keep where its texts are.
+        for col in columns.iter_mut().filter(|c| c.kind() != ColumnKind::Numeric) {
+            col.text_rows = Vec::new();
+        }
         if row_numbers.is_empty() {
             return Err(if header { TableError::HeaderOnly } else { TableError::Empty });
         }

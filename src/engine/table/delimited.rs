@@ -164,7 +164,15 @@ impl TableBuilder {
         if body.iter().all(|b| b.is_ascii_whitespace()) && complete {
             return Err(TableError::Empty);
         }
-        let (sn, recs) = sniff::sniff_text(body, complete, &self.opts)?;
+        let (sn, recs) = match sniff::sniff_text(body, complete, &self.opts) {
+            // Not one whole record yet (a first line longer than the
+            // sample): keep collecting.
+            Err(TableError::Empty) if !complete => {
+                self.state = State::Sampling(sample);
+                return Ok(());
+            }
+            other => other?,
+        };
         // Rows expected from the sample's bytes per record, 2 % spare.
         let rows_hint = match self.total {
             Some(total) if !complete && !recs.is_empty() => {
