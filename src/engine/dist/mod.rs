@@ -13,6 +13,7 @@ mod normal;
 mod poisson;
 mod special;
 mod student_t;
+mod t_beta;
 mod t_integral;
 
 pub use binomial::Binomial;

@@ -454,6 +454,13 @@ pub(super) fn ln_lower(t: f64, nu: f64, delta: f64) -> f64 {
         // T ≤ 0 exactly when Z ≤ −δ.
         return ln_std_cdf(-delta);
     }
+    if delta == 0.0 {
+        // The central t: the incomplete beta's continued fraction is a
+        // small fraction of the quadrature's cost where it converges fast.
+        if let Some(v) = super::t_beta::ln_lower_central(t, nu) {
+            return v.min(0.0);
+        }
+    }
     let f = Integrand {
         nu,
         sign: t.signum(),
