@@ -489,6 +489,10 @@ pub(super) fn ln_density(t: f64, nu: f64, delta: f64) -> f64 {
         // f(0) = E[S]·φ(δ) = √(2/ν)·Γ((ν+1)/2)/Γ(ν/2)·φ(δ).
         return ln_mean_s(nu) - 0.5 * delta * delta - LN_SQRT_2PI;
     }
+    if delta == 0.0 {
+        // The central t has a closed form; the quadrature is for δ ≠ 0.
+        return super::student_t::ln_density_closed(t, nu, ln_mean_s(nu) - LN_SQRT_2PI);
+    }
     let f = Integrand {
         nu,
         sign: t.signum(),
