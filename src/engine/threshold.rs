@@ -122,7 +122,8 @@ pub fn continuous_errors<C0: Continuous, C1: Continuous>(h0: &C0, h1: &C1, cut: 
             let alpha = h0.cdf(lo) + h0.sf(hi);
             // P1(lo ≤ T ≤ hi), from the tail that is smaller so that the
             // difference keeps its digits.
-            let beta = if h1.cdf(hi) <= 0.5 { h1.cdf(hi) - h1.cdf(lo) } else { h1.sf(lo) - h1.sf(hi) };
+            let below_hi = h1.cdf(hi);
+            let beta = if below_hi <= 0.5 { below_hi - h1.cdf(lo) } else { h1.sf(lo) - h1.sf(hi) };
             Errors { alpha: alpha.min(1.0), beta: beta.clamp(0.0, 1.0) }
         }
     }
