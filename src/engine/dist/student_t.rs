@@ -66,6 +66,13 @@ impl Continuous for StudentT {
         ln_density_closed(x, nu, self.ln_f0)
     }
 
+    fn ln_pdf_slope(&self, x: f64) -> (f64, f64) {
+        // d/dx of −(ν+1)/2·ln(1 + x²/ν); the normal limit's −x past NU_LIMIT.
+        let nu = self.df;
+        let slope = if nu > NU_LIMIT { -x } else { -(nu + 1.0) * x / (nu + x * x) };
+        (self.ln_pdf(x), if slope.is_finite() { slope } else { -(nu + 1.0) / x })
+    }
+
     fn cdf(&self, x: f64) -> f64 {
         ln_lower(x, self.df, 0.0).exp()
     }
