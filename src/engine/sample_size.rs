@@ -144,9 +144,9 @@ fn conventional_probe(design: &Design, n: u64) -> Result<Probe, EvaluateError> {
 /// that is false then true, found by guessing and confirming: each guess
 /// is the secant root of the probes' scores on the √n scale (from one
 /// probe, score + scale ∝ √n), clamped inside the bracket of the largest
-/// failing and smallest passing n seen; after two guesses that leave the
-/// same end of the bracket in place the next is a bisection (or, with no
-/// passing n yet, a doubling). It stops when n passes and n − 1 fails, so
+/// failing and smallest passing n seen; after three probes in a row on the
+/// same side of the answer the next is a bisection (or, with no passing n
+/// yet, a doubling). It stops when n passes and n − 1 fails, so
 /// the answer is the one doubling and bisection give, with a handful of
 /// probes when the score is close to linear in √n. `None` when `max`
 /// fails. Falls back to [`smallest_monotone`] if the probes contradict a
@@ -167,11 +167,11 @@ where
         } else {
             fail = Some(fail.map_or(n, |f| f.max(n)));
         }
-        if let (Some(f), Some(q)) = (fail, pass) {
-            if f >= q {
-                // Not false-then-true after all: the plain search decides.
-                return smallest_monotone(lo, max, |n| Ok(probe(n)?.pass));
-            }
+        if let (Some(f), Some(q)) = (fail, pass)
+            && f >= q
+        {
+            // Not false-then-true after all: the plain search decides.
+            return smallest_monotone(lo, max, |n| Ok(probe(n)?.pass));
         }
         points.push(((n as f64).sqrt(), p.score, p.scale));
         match (fail, pass) {
