@@ -1,9 +1,11 @@
 //! Sample-size search: the smallest n (per group) that makes the design
 //! conclusive, beside the conventional n (level α_max, power 1 − β_max).
 //!
-//! Continuous families: α*(n) and β*(n) fall with n, so the search doubles
-//! from the smallest admissible n and bisects on integers, O(log n) threshold
-//! solves, and by construction n − 1 fails. Discrete families saw-tooth: the
+//! Continuous families: α*(n) and β*(n) fall with n, so the search guesses
+//! n from the probit margins of a few solves (they grow about like √n) and
+//! confirms that n passes and n − 1 fails, with bisection and doubling as
+//! safeguards: about four threshold solves, and by construction n − 1
+//! fails. Discrete families saw-tooth: the
 //! search scans upward and also reports the smallest n from which every n up
 //! to a stated bound stays conclusive.
 

@@ -4,10 +4,11 @@
 //! Conventions (direction, the two-sided rule |T − t0| > c, ties) are those
 //! of DEVELOPERS.md, "Statistical conventions". A continuous c* is a root of
 //! ln((1 − w)·f1) − ln(w·f0) (one-sided; the two-sided form sums the
-//! densities at t0 ± c), found by Brent's method from a bracket, never read
-//! off a grid. A discrete c* is found exactly: the difference of the error
-//! between neighbouring cut-offs is a difference of masses, so the walk
-//! follows the likelihood ratio.
+//! densities at t0 ± c), found by Newton's method with the densities' exact
+//! slopes where they cross once, else (or whenever Newton misbehaves) by
+//! Brent's method from a bracket; never read off a grid. A discrete c* is
+//! found exactly: the difference of the error between neighbouring cut-offs
+//! is a difference of masses, so the walk follows the likelihood ratio.
 
 use super::dist::{Continuous, DistError, Discrete, Normal};
 use super::root::{RootError, Tolerance, brent, brent_from, expand};
@@ -520,8 +521,9 @@ impl<D: Discrete> DiscreteTail for D {
 /// D(k) = (1 − w)·p1(k) − w·p0(k); under a monotone likelihood ratio the sign
 /// of D changes once, so a bisection on the sign of ln((1−w)p1) − ln(w·p0)
 /// finds the optimum in O(log n) mass evaluations. Two-sided: the acceptance
-/// region grows by distance from the centre m0; the walk visits every
-/// distinct distance inside the range where either distribution has mass.
+/// region grows by distance from the centre m0; the walk visits the
+/// distinct distances near the optimum that bounds on the remaining mass
+/// leave in contention (every one, for windows under 200 counts).
 pub fn solve_discrete<D0: Discrete, D1: Discrete>(
     h0: &D0,
     h1: &D1,
