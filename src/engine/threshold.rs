@@ -531,21 +531,30 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
 ) -> Result<DiscreteSolution, ThresholdError> {
     let w = check_weight(setup.weight)?;
     let (lw0, lw1) = (w.ln(), (1.0 - w).ln());
-    // Counts outside [first, top] carry mass below 1e-300 under both.
-    let (window0, window1) = (mass_window(h0), mass_window(h1));
-    let (first, top) = (window0.0.min(window1.0), window0.1.max(window1.1));
+    // Counts above `top` carry mass below 1e-300 under both.
+    let top = mass_window_last(h0).max(mass_window_last(h1));
     // Sign of D(k): > 0 where the weighted H1 mass is larger.
     let d = |k: u64| (lw1 + h1.ln_pmf(k)) - (lw0 + h0.ln_pmf(k));
     let errors = |cut| discrete_errors(h0, h1, cut);
+    // (1 − w)·p1(x) − w·p0(x), 0 off the support.
+    let mass_step = |x: i64| if x < 0 { 0.0 } else { (1.0 - w) * h1.pmf(x as u64) - w * h0.pmf(x as u64) };
     match setup.alternative {
         Alternative::Greater => {
             // Smallest k in [0, top] with D(k) ≥ 0; none: never reject.
             let k = first_true(0, top, |k| d(k) >= 0.0).map_or(top as i64 + 1, |k| k as i64);
             let cut = DiscreteCut::AtLeast;
-            Ok(with_ties(k, cut, &errors, w, |c| match c {
-                DiscreteCut::AtLeast(k) => k,
-                _ => 0,
-            }))
+            // Rejecting X ≥ j + 1 instead of X ≥ j accepts X = j.
+            Ok(with_ties(
+                k,
+                cut,
+                &errors,
+                w,
+                |c| match c {
+                    DiscreteCut::AtLeast(k) => k,
+                    _ => 0,
+                },
+                mass_step,
+            ))
         }
         Alternative::Less => {
             // Largest k with D(k) ≥ 0, i.e. one below the first k with D < 0.
@@ -553,12 +562,24 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
                 Some(k) => k as i64 - 1,
                 None => top as i64,
             };
-            Ok(with_ties(k, DiscreteCut::AtMost, &errors, w, |c| match c {
-                DiscreteCut::AtMost(k) => k,
-                _ => 0,
-            }))
+            // Rejecting X ≤ j + 1 instead of X ≤ j rejects X = j + 1.
+            Ok(with_ties(
+                k,
+                DiscreteCut::AtMost,
+                &errors,
+                w,
+                |c| match c {
+                    DiscreteCut::AtMost(k) => k,
+                    _ => 0,
+                },
+                |j| -mass_step(j + 1),
+            ))
         }
-        Alternative::TwoSided => Ok(solve_discrete_two_sided(h0, h1, setup.centre, w, first, top)),
+        Alternative::TwoSided => {
+            // Counts outside [first, top] carry mass below 1e-300 under both.
+            let first = mass_window_first(h0).min(mass_window_first(h1));
+            Ok(solve_discrete_two_sided(h0, h1, setup.centre, w, first, top))
+        }
     }
 }
 
@@ -566,12 +587,31 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
 /// smallest f64) times the mass at the mode, found by bisection on the
 /// unimodal log-mass: O(log n) evaluations instead of a tail search.
 pub(crate) fn mass_window<D: Discrete>(d: &D) -> (u64, u64) {
-    let support = d.support_max();
-    let mode = (d.centre().max(0.0).floor() as u64).min(support);
-    let cutoff = d.ln_pmf(mode) - 745.0;
+    (mass_window_first(d), mass_window_last(d))
+}
+
+/// The first count of [`mass_window`] alone.
+fn mass_window_first<D: Discrete>(d: &D) -> u64 {
+    let (mode, cutoff) = window_mode(d);
+    first_true(0, mode, |k| d.ln_pmf(k) >= cutoff).unwrap_or(mode)
+}
+
+/// The last count of [`mass_window`] alone (all a one-sided solve needs).
+fn mass_window_last<D: Discrete>(d: &D) -> u64 {
+    let (mode, cutoff) = window_mode(d);
+    window_last(d, mode, cutoff)
+}
+
+/// The mode (floor of the centre) and the log-mass cut-off of the window.
+fn window_mode<D: Discrete>(d: &D) -> (u64, f64) {
+    let mode = (d.centre().max(0.0).floor() as u64).min(d.support_max());
+    (mode, d.ln_pmf(mode) - 745.0)
+}
+
+fn window_last<D: Discrete>(d: &D, mode: u64, cutoff: f64) -> u64 {
     let keep = |k: u64| d.ln_pmf(k) >= cutoff;
-    let first = first_true(0, mode, keep).unwrap_or(mode);
     // Upper end: the support's end, or doubling outward for unbounded laws.
+    let support = d.support_max();
     let mut hi = support;
     if support == u64::MAX {
         let mut step = 1u64;
@@ -584,11 +624,10 @@ pub(crate) fn mass_window<D: Discrete>(d: &D) -> (u64, u64) {
             hi = mode.saturating_add(step);
         }
     }
-    let last = match first_true(mode, hi, |k| !keep(k)) {
+    match first_true(mode, hi, |k| !keep(k)) {
         Some(k) => k.saturating_sub(1).max(mode),
         None => hi,
-    };
-    (first, last)
+    }
 }
 
 /// Smallest k in [lo, hi] with `p(k)` true, for a predicate that is false
@@ -606,28 +645,39 @@ fn first_true<P: Fn(u64) -> bool>(lo: u64, hi: u64, p: P) -> Option<u64> {
 }
 
 /// Gather the neighbours of `k` whose weighted error ties with it, and pick
-/// the one with the smallest α.
-fn with_ties<F, M, K>(k: i64, make: M, errors: &F, w: f64, key: K) -> DiscreteSolution
+/// the one with the smallest α. `step(j)` is E(j + 1) − E(j) from the two
+/// masses: a neighbour whose summed steps exceed the tie tolerance tenfold
+/// cannot tie (the tails agree with the masses to about 1e-15 of E), so its
+/// tails are not computed; any other is judged from its tails as before.
+fn with_ties<F, M, K, S>(k: i64, make: M, errors: &F, w: f64, key: K, step: S) -> DiscreteSolution
 where
     F: Fn(DiscreteCut) -> Errors,
     M: Fn(i64) -> DiscreteCut,
     K: Fn(DiscreteCut) -> i64,
+    S: Fn(i64) -> f64,
 {
     let e = errors(make(k));
     let best = e.weighted(w);
-    let tied = |x: &Errors| (x.weighted(w) - best).abs() <= TIE_TOLERANCE * best.max(f64::MIN_POSITIVE);
+    let scale = TIE_TOLERANCE * best.max(f64::MIN_POSITIVE);
+    let tied = |x: &Errors| (x.weighted(w) - best).abs() <= scale;
     let mut ties = vec![(make(k), e)];
-    for step in [-1i64, 1] {
-        let mut j = k + step;
+    for dir in [-1i64, 1] {
+        let mut j = k + dir;
+        // E(j) − E(k), from the masses.
+        let mut moved = 0.0;
         // More than a handful of exact ties cannot happen under a monotone
         // likelihood ratio; the bound keeps the walk finite regardless.
         for _ in 0..4 {
+            moved += if dir > 0 { step(j - 1) } else { -step(j) };
+            if moved.abs() > 10.0 * scale {
+                break;
+            }
             let ej = errors(make(j));
             if !tied(&ej) {
                 break;
             }
             ties.push((make(j), ej));
-            j += step;
+            j += dir;
         }
     }
     ties.sort_by_key(|(c, _)| key(*c));
