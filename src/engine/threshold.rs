@@ -4,8 +4,8 @@
 //! Conventions (direction, the two-sided rule |T − t0| > c, ties) are those
 //! of DEVELOPERS.md, "Statistical conventions". A continuous c* is a root of
 //! ln((1 − w)·f1) − ln(w·f0) (one-sided; the two-sided form sums the
-//! densities at t0 ± c), found by Newton's method with the densities' exact
-//! slopes where they cross once, else (or whenever Newton misbehaves) by
+//! densities at t0 ± c), found by Halley's method with the densities' exact
+//! derivatives where they cross once, else (or whenever it misbehaves) by
 //! Brent's method from a bracket; never read off a grid. A discrete c* is
 //! found exactly: the difference of the error between neighbouring cut-offs
 //! is a difference of masses, so the walk follows the likelihood ratio.
@@ -162,15 +162,15 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
             let (c0, c1) = (h0.centre(), h1.centre());
             // Under H1 above H0, g rises with c; below, it falls.
             let rising = c1 > c0;
-            // Newton first: from the crossing of the equal-variance normal
+            // Halley first: from the crossing of the equal-variance normal
             // shift with the same centres and weights, g and its slope
             // from the same density evaluations.
             let newton_root = if setup.single_crossing {
                 let slope = (c1 - c0) / (h0.spread() * h1.spread());
                 let start = 0.5 * (c0 + c1) - (lw1 - lw0) / slope;
                 let gs = |c: f64| {
-                    let ((l1, s1), (l0, s0)) = (h1.ln_pdf_slope(c), h0.ln_pdf_slope(c));
-                    ((lw1 + l1) - (lw0 + l0), s1 - s0)
+                    let ((l1, s1, k1), (l0, s0, k0)) = (h1.ln_pdf_derivatives(c), h0.ln_pdf_derivatives(c));
+                    ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
                 };
                 newton(gs, start, rising, f64::NEG_INFINITY, spread, &mut iterations)
             } else {
@@ -224,20 +224,27 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
             let make = |c: f64| ContinuousCut::Outside { centre: t0, half_width: c };
             let mut candidates = vec![0.0, f64::INFINITY];
             let anchor = 0.5 * (h1.centre() - t0).abs();
-            // Newton first (see the one-sided case), on the sums of the two
+            // Halley first (see the one-sided case), on the sums of the two
             // sides' densities: d/dc ln(f(t0+c) + f(t0−c)) is the
             // density-weighted mean of the slopes at t0 + c and −(slope at
             // t0 − c).
             let newton_root = if setup.single_crossing {
+                // With F(c) = f(t0+c) + f(t0−c) and shares pa, pb of the two
+                // terms: (ln F)' = pa·sa − pb·sb and
+                // (ln F)'' = pa·(ka + sa²) + pb·(kb + sb²) − ((ln F)')².
                 let side = |h: &dyn Continuous, c: f64| {
-                    let ((la, sa), (lb, sb)) = (h.ln_pdf_slope(t0 + c), h.ln_pdf_slope(t0 - c));
+                    let ((la, sa, ka), (lb, sb, kb)) = (h.ln_pdf_derivatives(t0 + c), h.ln_pdf_derivatives(t0 - c));
                     let l = ln_add(la, lb);
-                    let part = |lx: f64, sx: f64| if lx - l < -745.0 { 0.0 } else { (lx - l).exp() * sx };
-                    (l, part(la, sa) - part(lb, sb))
+                    let share = |lx: f64| if lx - l < -745.0 { 0.0 } else { (lx - l).exp() };
+                    let (pa, pb) = (share(la), share(lb));
+                    let part = |p: f64, x: f64| if p == 0.0 { 0.0 } else { p * x };
+                    let slope = part(pa, sa) - part(pb, sb);
+                    let curvature = part(pa, ka + sa * sa) + part(pb, kb + sb * sb) - slope * slope;
+                    (l, slope, curvature)
                 };
                 let gs = |c: f64| {
-                    let ((l1, s1), (l0, s0)) = (side(h1, c), side(h0, c));
-                    ((lw1 + l1) - (lw0 + l0), s1 - s0)
+                    let ((l1, s1, k1), (l0, s0, k0)) = (side(h1, c), side(h0, c));
+                    ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
                 };
                 // Start from the same equation for normals with the two
                 // laws' centres and spreads (cheap: closed-form densities).
@@ -246,8 +253,8 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
                 let start = match (Normal::new(h0.centre(), h0.spread()), Normal::new(h1.centre(), h1.spread())) {
                     (Ok(n0), Ok(n1)) => {
                         let gn = |c: f64| {
-                            let ((l1, s1), (l0, s0)) = (side(&n1, c), side(&n0, c));
-                            ((lw1 + l1) - (lw0 + l0), s1 - s0)
+                            let ((l1, s1, k1), (l0, s0, k0)) = (side(&n1, c), side(&n0, c));
+                            ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
                         };
                         newton(gn, rough, true, 0.0, spread, &mut 0).unwrap_or(rough)
                     }
@@ -309,21 +316,23 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
 /// is then about its square, far below the 1e-13 the callers need.
 const NEWTON_STOP: f64 = 1e-8;
 
-/// A root of g by Newton's method with g's exact slope (`gs` returns both),
-/// from `start`, for a g that crosses zero once, rising or falling as
-/// `rising` says, on [floor, ∞). Safeguarded: the points seen keep a
-/// bracket and a step leaving it is replaced by bisection. It stops when
+/// A root of g by Halley's method with g's exact first and second
+/// derivatives (`gs` returns all three; a non-finite second derivative or a
+/// Halley factor outside [½, 2] falls back to the Newton step), from
+/// `start`, for a g that crosses zero once, rising or falling as `rising`
+/// says, on [floor, ∞). Safeguarded: the points seen keep a bracket and a
+/// step leaving it is replaced by bisection. It stops when
 /// the step falls below [`NEWTON_STOP`] relative (plus 1e-13 of `scale`),
-/// returning the point after that step; quadratic convergence makes its
-/// error about the step squared. `None` (the caller then brackets and runs
+/// returning the point after that step; (at least) quadratic convergence
+/// makes its error about the step squared. `None` (the caller then brackets and runs
 /// Brent's method) on a non-finite value, a slope of the wrong sign, a step
 /// below `floor` or 12 evaluations without converging.
-fn newton<G: Fn(f64) -> (f64, f64)>(gs: G, start: f64, rising: bool, floor: f64, scale: f64, iterations: &mut usize) -> Option<f64> {
+fn newton<G: Fn(f64) -> (f64, f64, f64)>(gs: G, start: f64, rising: bool, floor: f64, scale: f64, iterations: &mut usize) -> Option<f64> {
     let (mut lo, mut hi) = (floor, f64::INFINITY);
     let mut x = start;
     let mut last_step = f64::NAN;
     for _ in 0..12 {
-        let (g, slope) = gs(x);
+        let (g, slope, curvature) = gs(x);
         *iterations += 1;
         if !g.is_finite() {
             return None;
@@ -340,7 +349,11 @@ fn newton<G: Fn(f64) -> (f64, f64)>(gs: G, start: f64, rising: bool, floor: f64,
         if !slope.is_finite() || slope == 0.0 || (slope > 0.0) != rising {
             return None;
         }
-        let step = g / slope;
+        let newton_step = g / slope;
+        // Halley: divide by 1 − g·g''/(2g'²) (Press et al., Numerical
+        // Recipes, 3rd ed., §9.4); cubic convergence from a fair start.
+        let factor = 1.0 - 0.5 * newton_step * curvature / slope;
+        let step = if factor.is_finite() && (0.5..=2.0).contains(&factor) { newton_step / factor } else { newton_step };
         let mut next = x - step;
         if !(next > lo && next < hi) {
             if !(lo.is_finite() && hi.is_finite()) {

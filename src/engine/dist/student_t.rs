@@ -66,11 +66,20 @@ impl Continuous for StudentT {
         ln_density_closed(x, nu, self.ln_f0)
     }
 
-    fn ln_pdf_slope(&self, x: f64) -> (f64, f64) {
-        // d/dx of −(ν+1)/2·ln(1 + x²/ν); the normal limit's −x past NU_LIMIT.
+    fn ln_pdf_derivatives(&self, x: f64) -> (f64, f64, f64) {
+        // d/dx and d²/dx² of −(ν+1)/2·ln(1 + x²/ν); the normal limit's −x
+        // and −1 past NU_LIMIT.
         let nu = self.df;
-        let slope = if nu > NU_LIMIT { -x } else { -(nu + 1.0) * x / (nu + x * x) };
-        (self.ln_pdf(x), if slope.is_finite() { slope } else { -(nu + 1.0) / x })
+        if nu > NU_LIMIT {
+            return (self.ln_pdf(x), -x, -1.0);
+        }
+        let r = 1.0 / (nu + x * x);
+        let (slope, curvature) = if r > 0.0 {
+            (-(nu + 1.0) * x * r, -(nu + 1.0) * (nu - x * x) * r * r)
+        } else {
+            (-(nu + 1.0) / x, (nu + 1.0) / (x * x))
+        };
+        (self.ln_pdf(x), slope, curvature)
     }
 
     fn cdf(&self, x: f64) -> f64 {
