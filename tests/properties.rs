@@ -289,7 +289,8 @@ proptest! {
         let alt = ALTS[a];
         let d = design(&p, alt, side(alt, coin));
         let r = n_range(p.family);
-        let n = r.start() + ((r.end() - r.start()) as f64 * n_pick) as u64;
+        // The design's own smallest n1 (see mirror_images_agree).
+        let n = (r.start() + ((r.end() - r.start()) as f64 * n_pick) as u64).max(d.n_min());
         let model = d.model(n).map_err(|e| TestCaseError::fail(format!("model at n = {n}: {e}")))?;
         let (cut, errors, _) = solve(&model).map_err(|e| TestCaseError::fail(format!("solve at n = {n}: {e}")))?;
         let res = match (&model.sampling, cut) {
@@ -398,7 +399,9 @@ proptest! {
         let sb = if proportion { spec(&p, alt_b, 1.0, true) } else { spec(&p, alt_b, -1.0, false) };
         let b = Design::new(&sb).unwrap_or_else(|e| panic!("mirror refused: {e}; {sb:?}"));
         let r = n_range(p.family);
-        let n = r.start() + ((r.end() - r.start()) as f64 * n_pick) as u64;
+        // The design's own smallest n1: n2 = ⌈ratio·n1⌉ ≥ 2 needs more than
+        // the family's when ratio < 1.
+        let n = (r.start() + ((r.end() - r.start()) as f64 * n_pick) as u64).max(a.n_min());
         let (ea, eb) = (evaluate(&a, n).unwrap(), evaluate(&b, n).unwrap());
         prop_assert!(close(ea.alpha, eb.alpha, 1e-12), "α*: {} vs {}", ea.alpha, eb.alpha);
         prop_assert!(close(ea.beta, eb.beta, 1e-12), "β*: {} vs {}", ea.beta, eb.beta);

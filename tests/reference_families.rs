@@ -1,6 +1,7 @@
 //! The engine against an independent reference: `tests/reference/families.json`,
 //! written by `tests/reference/gen_families.py` with SciPy and statsmodels
-//! (versions in the file's header). Every family, every alternative; c*, α*,
+//! (versions in the file's header), and `exact_large.json` (the exact
+//! binomial at large n, by `gen_exact_large.py` with the same builder). Every family, every alternative; c*, α*,
 //! β* within 1e-9 relative, sample sizes exact.
 
 use serde_json::Value;
@@ -58,8 +59,24 @@ fn int(v: &Value, key: &str) -> Option<Option<i64>> {
 
 #[test]
 fn families_match_the_reference() {
-    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/reference/families.json"))
-        .expect("tests/reference/families.json is committed");
+    let checked = check_file("families.json");
+    assert!(checked >= 200, "only {checked} reference cases");
+}
+
+/// The exact binomial at n ≈ 31,000 and 62,000 (p0 = .5 against .51, both
+/// alternatives), where the two-sided walk stops early: written by
+/// `tests/reference/gen_exact_large.py` with the same SciPy case builder.
+#[test]
+fn large_exact_binomial_matches_the_reference() {
+    let checked = check_file("exact_large.json");
+    assert_eq!(checked, 10);
+}
+
+/// Check every case of one reference file in tests/reference/; returns how
+/// many were checked.
+fn check_file(file: &str) -> usize {
+    let path = format!("{}/tests/reference/{file}", env!("CARGO_MANIFEST_DIR"));
+    let text = std::fs::read_to_string(&path).unwrap_or_else(|e| panic!("{path} is committed: {e}"));
     let doc: Value = serde_json::from_str(&text).expect("the reference file is JSON");
     let cases = doc["cases"].as_array().expect("cases");
     let mut failures = Vec::new();
@@ -192,7 +209,7 @@ fn families_match_the_reference() {
             other => failures.push(format!("{name}: unknown kind {other:?}")),
         }
     }
-    println!("checked {checked} reference cases; worst relative error {worst:.2e}");
-    assert!(checked >= 200, "only {checked} reference cases");
-    assert!(failures.is_empty(), "{} of {checked} cases differ:\n{}", failures.len(), failures.join("\n"));
+    println!("{file}: checked {checked} reference cases; worst relative error {worst:.2e}");
+    assert!(failures.is_empty(), "{file}: {} of {checked} cases differ:\n{}", failures.len(), failures.join("\n"));
+    checked
 }

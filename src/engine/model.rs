@@ -41,6 +41,9 @@ impl Continuous for ContDist {
     fn ln_pdf(&self, x: f64) -> f64 {
         delegate!(self, d => d.ln_pdf(x))
     }
+    fn ln_pdf_derivatives(&self, x: f64) -> (f64, f64, f64) {
+        delegate!(self, d => d.ln_pdf_derivatives(x))
+    }
     fn cdf(&self, x: f64) -> f64 {
         delegate!(self, d => d.cdf(x))
     }

@@ -1,19 +1,25 @@
 //! Sample-size search: the smallest n (per group) that makes the design
 //! conclusive, beside the conventional n (level α_max, power 1 − β_max).
 //!
-//! Continuous families: α*(n) and β*(n) fall with n, so the search doubles
-//! from the smallest admissible n and bisects on integers, O(log n) threshold
-//! solves, and by construction n − 1 fails. Discrete families saw-tooth: the
+//! Continuous families: α*(n) and β*(n) fall with n, so the search guesses
+//! n from the probit margins of a few solves (they grow about like √n) and
+//! confirms that n passes and n − 1 fails, with bisection and doubling as
+//! safeguards: about four threshold solves, and by construction n − 1
+//! fails. Discrete families saw-tooth: the
 //! search scans upward and also reports the smallest n from which every n up
 //! to a stated bound stays conclusive.
 
 use super::design::{Design, N_MAX};
-use super::dist::{Continuous, Discrete};
+use super::dist::{Continuous, Discrete, Normal};
 use super::evaluate::{EvaluateError, Evaluation, evaluate, sig3, solve, within};
 use super::conventional::{continuous_level, discrete_level};
 use super::model::Sampling;
 use super::threshold::{ContinuousCut, Errors};
 use serde::Serialize;
+
+/// The first n a guided search probes: large enough that the t families'
+/// heavy tails at tiny df do not distort the √n extrapolation.
+const GUIDED_START: u64 = 10;
 
 /// Largest n scanned for the exact binomial (one solve per n).
 pub const N_MAX_DISCRETE: u64 = 200_000;
@@ -103,6 +109,124 @@ where
     Ok(Some(pass))
 }
 
+/// One evaluation of a guided search: whether n passes, and a score that
+/// guides the next guess (see [`smallest_guided`]).
+struct Probe {
+    pass: bool,
+    /// About linear in √n, ≥ 0 where n passes; only a guide.
+    score: f64,
+    /// The probit of the binding limit: score + this is about ∝ √n.
+    scale: f64,
+}
+
+/// Upper-tail probit: z with P(Z > z) = e (±∞ at 0 and 1, NaN outside).
+fn probit_upper(e: f64) -> f64 {
+    Normal::STANDARD.quantile_upper(e.clamp(0.0, 1.0)).unwrap_or(f64::NAN)
+}
+
+/// The Youden probe at n: the smaller probit margin of α* and β* to their
+/// limits. For a location shift by Δ·√n, −Φ⁻¹(α*) and −Φ⁻¹(β*) grow like
+/// √n, which is what the guided search exploits.
+fn youden_probe(design: &Design, n: u64, solves: &mut usize) -> Result<Probe, EvaluateError> {
+    let e = errors_at(design, n, solves)?;
+    let (za, zb) = (probit_upper(design.alpha_max), probit_upper(design.beta_max));
+    let (ma, mb) = (probit_upper(e.alpha) - za, probit_upper(e.beta) - zb);
+    let (score, scale) = if ma <= mb { (ma, za) } else { (mb, zb) };
+    Ok(Probe { pass: within(design, &e), score, scale })
+}
+
+/// The conventional probe at n: the probit margin of the power.
+fn conventional_probe(design: &Design, n: u64) -> Result<Probe, EvaluateError> {
+    let power = conventional_power(design, n)?;
+    let z = probit_upper(design.beta_max);
+    Ok(Probe { pass: power >= 1.0 - design.beta_max, score: -probit_upper(power) - z, scale: z })
+}
+
+/// Smallest n in [lo, max] where the probe passes, for a pass/fail pattern
+/// that is false then true, found by guessing and confirming: each guess
+/// is the secant root of the probes' scores on the √n scale (from one
+/// probe, score + scale ∝ √n), clamped inside the bracket of the largest
+/// failing and smallest passing n seen; after three probes in a row on the
+/// same side of the answer the next is a bisection (or, with no passing n
+/// yet, a doubling). It stops when n passes and n − 1 fails, so
+/// the answer is the one doubling and bisection give, with a handful of
+/// probes when the score is close to linear in √n. `None` when `max`
+/// fails. Falls back to [`smallest_monotone`] if the probes contradict a
+/// false-then-true pattern.
+fn smallest_guided<F>(lo: u64, max: u64, start: u64, mut probe: F) -> Result<Option<u64>, EvaluateError>
+where
+    F: FnMut(u64) -> Result<Probe, EvaluateError>,
+{
+    let (mut fail, mut pass): (Option<u64>, Option<u64>) = (None, None);
+    let mut points: Vec<(f64, f64, f64)> = Vec::new();
+    // How many probes in a row moved the same end of the bracket.
+    let (mut same_side, mut last_side) = (0usize, None);
+    let mut n = start.clamp(lo, max);
+    for _ in 0..200 {
+        let p = probe(n)?;
+        if p.pass {
+            pass = Some(pass.map_or(n, |q| q.min(n)));
+        } else {
+            fail = Some(fail.map_or(n, |f| f.max(n)));
+        }
+        if let (Some(f), Some(q)) = (fail, pass)
+            && f >= q
+        {
+            // Not false-then-true after all: the plain search decides.
+            return smallest_monotone(lo, max, |n| Ok(probe(n)?.pass));
+        }
+        points.push(((n as f64).sqrt(), p.score, p.scale));
+        match (fail, pass) {
+            (_, Some(q)) if q == lo => return Ok(Some(lo)),
+            (Some(f), Some(q)) if q == f + 1 => return Ok(Some(q)),
+            (Some(f), None) if f == max => return Ok(None),
+            _ => {}
+        }
+        same_side = if last_side == Some(p.pass) { same_side + 1 } else { 0 };
+        last_side = Some(p.pass);
+        let low = fail.map_or(lo, |f| f + 1);
+        let high = pass.map_or(max, |q| q - 1);
+        // Growth is limited while no n passes, so a poor guess costs little.
+        let reach = if pass.is_some() { high } else { high.min(fail.map_or(lo, |f| f).saturating_mul(16)).max(low) };
+        let guess = predict(&points).filter(|g| g.is_finite() && *g > 0.0);
+        n = match guess {
+            Some(r) if same_side < 2 => {
+                let g = (r * r).ceil().min(u64::MAX as f64 / 2.0) as u64;
+                g.clamp(low, reach)
+            }
+            _ => match (fail, pass) {
+                (Some(f), Some(q)) => f + (q - f) / 2,
+                (Some(f), None) => f.saturating_mul(2).clamp(low, high),
+                (None, Some(q)) => lo + (q - lo) / 2,
+                (None, None) => low,
+            },
+        };
+        if same_side >= 2 {
+            same_side = 0;
+        }
+    }
+    smallest_monotone(lo, max, |n| Ok(probe(n)?.pass))
+}
+
+/// Where the score reaches 0 on the √n scale: the secant through the last
+/// two probes, or from one probe the line through the origin of
+/// score + scale.
+fn predict(points: &[(f64, f64, f64)]) -> Option<f64> {
+    match points {
+        [] => None,
+        [(x, s, z)] => {
+            let r = x * z / (s + z);
+            (s + z > 0.0).then_some(r)
+        }
+        [.., (x1, s1, _), (x2, s2, _)] => {
+            if !(s1.is_finite() && s2.is_finite()) || s1 == s2 || x1 == x2 {
+                return predict(&points[points.len() - 1..]);
+            }
+            Some(x2 - s2 * (x2 - x1) / (s2 - s1))
+        }
+    }
+}
+
 /// Smallest n in [lo, max] where `ok` holds, scanning every n.
 fn smallest_scan<F>(lo: u64, max: u64, mut ok: F) -> Result<Option<u64>, EvaluateError>
 where
@@ -165,18 +289,22 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     let discrete = design.family.discrete();
     // Two groups: n2 = ⌈ratio·n1⌉ must stay within N_MAX too.
     let max = if discrete { N_MAX_DISCRETE } else { N_MAX }.min(design.n_max());
-    let mut ok = |n: u64| -> Result<bool, EvaluateError> { Ok(within(design, &errors_at(design, n, &mut solves)?)) };
+    let ok = |n: u64, solves: &mut usize| -> Result<bool, EvaluateError> { Ok(within(design, &errors_at(design, n, solves)?)) };
     // Counts: no n below the randomized Neyman–Pearson bound can be
     // conclusive or reach the conventional power, so the scans start there.
     let scan_from = if discrete { randomized_bound(design, lo, max)?.unwrap_or(max) } else { lo };
-    let youden = if discrete { smallest_scan(scan_from, max, &mut ok)? } else { smallest_monotone(lo, max, &mut ok)? };
+    let youden = if discrete {
+        smallest_scan(scan_from, max, |n| ok(n, &mut solves))?
+    } else {
+        smallest_guided(lo, max, GUIDED_START, |n| youden_probe(design, n, &mut solves))?
+    };
     let (mut stable_from, mut checked_to) = (None, None);
     if discrete {
         if let Some(first) = youden {
             let bound = (2 * first).max(first + 100).min(max);
             let mut last_fail = None;
             for n in first..=bound {
-                if !ok(n)? {
+                if !ok(n, &mut solves)? {
                     last_fail = Some(n);
                 }
             }
@@ -186,7 +314,11 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     }
     let target = 1.0 - design.beta_max;
     let conv_ok = |n: u64| -> Result<bool, EvaluateError> { Ok(conventional_power(design, n)? >= target) };
-    let conventional = if discrete { smallest_scan(scan_from, max, conv_ok)? } else { smallest_monotone(lo, max, conv_ok)? };
+    let conventional = if discrete {
+        smallest_scan(scan_from, max, conv_ok)?
+    } else {
+        smallest_guided(lo, max, GUIDED_START, |n| conventional_probe(design, n))?
+    };
     let balancing_weight = match conventional {
         Some(n) if !discrete => balancing_weight(design, n)?,
         _ => None,

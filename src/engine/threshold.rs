@@ -4,12 +4,13 @@
 //! Conventions (direction, the two-sided rule |T − t0| > c, ties) are those
 //! of DEVELOPERS.md, "Statistical conventions". A continuous c* is a root of
 //! ln((1 − w)·f1) − ln(w·f0) (one-sided; the two-sided form sums the
-//! densities at t0 ± c), found by Brent's method from a bracket, never read
-//! off a grid. A discrete c* is found exactly: the difference of the error
-//! between neighbouring cut-offs is a difference of masses, so the walk
-//! follows the likelihood ratio.
+//! densities at t0 ± c), found by Halley's method with the densities' exact
+//! derivatives where they cross once, else (or whenever it misbehaves) by
+//! Brent's method from a bracket; never read off a grid. A discrete c* is
+//! found exactly: the difference of the error between neighbouring cut-offs
+//! is a difference of masses, so the walk follows the likelihood ratio.
 
-use super::dist::{Continuous, DistError, Discrete};
+use super::dist::{Continuous, DistError, Discrete, Normal};
 use super::root::{RootError, Tolerance, brent, brent_from, expand};
 use serde::{Deserialize, Serialize};
 
@@ -122,7 +123,8 @@ pub fn continuous_errors<C0: Continuous, C1: Continuous>(h0: &C0, h1: &C1, cut: 
             let alpha = h0.cdf(lo) + h0.sf(hi);
             // P1(lo ≤ T ≤ hi), from the tail that is smaller so that the
             // difference keeps its digits.
-            let beta = if h1.cdf(hi) <= 0.5 { h1.cdf(hi) - h1.cdf(lo) } else { h1.sf(lo) - h1.sf(hi) };
+            let below_hi = h1.cdf(hi);
+            let beta = if below_hi <= 0.5 { below_hi - h1.cdf(lo) } else { h1.sf(lo) - h1.sf(hi) };
             Errors { alpha: alpha.min(1.0), beta: beta.clamp(0.0, 1.0) }
         }
     }
@@ -157,11 +159,27 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
                 _ => ContinuousCut::Below(c),
             };
             let mut candidates = Vec::with_capacity(4);
-            if setup.single_crossing {
+            let (c0, c1) = (h0.centre(), h1.centre());
+            // Under H1 above H0, g rises with c; below, it falls.
+            let rising = c1 > c0;
+            // Halley first: from the crossing of the equal-variance normal
+            // shift with the same centres and weights, g and its slope
+            // from the same density evaluations.
+            let newton_root = if setup.single_crossing {
+                let slope = (c1 - c0) / (h0.spread() * h1.spread());
+                let start = 0.5 * (c0 + c1) - (lw1 - lw0) / slope;
+                let gs = |c: f64| {
+                    let ((l1, s1, k1), (l0, s0, k0)) = (h1.ln_pdf_derivatives(c), h0.ln_pdf_derivatives(c));
+                    ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
+                };
+                newton(gs, start, rising, f64::NEG_INFINITY, spread, &mut iterations)
+            } else {
+                None
+            };
+            if let Some(x) = newton_root {
+                candidates.push(x);
+            } else if setup.single_crossing {
                 let anchor = 0.5 * (h0.centre() + h1.centre());
-                let (c0, c1) = (h0.centre(), h1.centre());
-                // Under H1 above H0, g rises with c; below, it falls.
-                let rising = c1 > c0;
                 let ga = g(anchor);
                 let direction = if (ga < 0.0) == rising { 1.0 } else { -1.0 };
                 // First try a tight bracket around a Newton guess: near the
@@ -206,7 +224,49 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
             let make = |c: f64| ContinuousCut::Outside { centre: t0, half_width: c };
             let mut candidates = vec![0.0, f64::INFINITY];
             let anchor = 0.5 * (h1.centre() - t0).abs();
-            let single = if setup.single_crossing {
+            // Halley first (see the one-sided case), on the sums of the two
+            // sides' densities: d/dc ln(f(t0+c) + f(t0−c)) is the
+            // density-weighted mean of the slopes at t0 + c and −(slope at
+            // t0 − c).
+            let newton_root = if setup.single_crossing {
+                // With F(c) = f(t0+c) + f(t0−c) and shares pa, pb of the two
+                // terms: (ln F)' = pa·sa − pb·sb and
+                // (ln F)'' = pa·(ka + sa²) + pb·(kb + sb²) − ((ln F)')².
+                let side = |h: &dyn Continuous, c: f64| {
+                    let ((la, sa, ka), (lb, sb, kb)) = (h.ln_pdf_derivatives(t0 + c), h.ln_pdf_derivatives(t0 - c));
+                    let l = ln_add(la, lb);
+                    let share = |lx: f64| if lx - l < -745.0 { 0.0 } else { (lx - l).exp() };
+                    let (pa, pb) = (share(la), share(lb));
+                    let part = |p: f64, x: f64| if p == 0.0 { 0.0 } else { p * x };
+                    let slope = part(pa, sa) - part(pb, sb);
+                    let curvature = part(pa, ka + sa * sa) + part(pb, kb + sb * sb) - slope * slope;
+                    (l, slope, curvature)
+                };
+                let gs = |c: f64| {
+                    let ((l1, s1, k1), (l0, s0, k0)) = (side(h1, c), side(h0, c));
+                    ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
+                };
+                // Start from the same equation for normals with the two
+                // laws' centres and spreads (cheap: closed-form densities).
+                let slope = (h1.centre() - t0).abs() / (h0.spread() * h1.spread());
+                let rough = (anchor - (lw1 - lw0) / slope).max(0.0);
+                let start = match (Normal::new(h0.centre(), h0.spread()), Normal::new(h1.centre(), h1.spread())) {
+                    (Ok(n0), Ok(n1)) => {
+                        let gn = |c: f64| {
+                            let ((l1, s1, k1), (l0, s0, k0)) = (side(&n1, c), side(&n0, c));
+                            ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
+                        };
+                        newton(gn, rough, true, 0.0, spread, &mut 0).unwrap_or(rough)
+                    }
+                    _ => rough,
+                };
+                newton(gs, start, true, 0.0, spread, &mut iterations)
+            } else {
+                None
+            };
+            let single = if newton_root.is_some() {
+                newton_root.map(|x| ((x, 0.0), (x, 0.0)))
+            } else if setup.single_crossing {
                 let ga = g(anchor);
                 let direction = if ga < 0.0 { 1.0 } else { -1.0 };
                 // Near the crossing the far-side terms are negligible and g
@@ -224,6 +284,7 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
                 None
             };
             match single {
+                Some(((x, _), _)) if newton_root.is_some() => candidates.push(x),
                 Some((lo, hi)) => {
                     let root = brent_from(g, lo, hi, Tolerance::TIGHT)?;
                     iterations += root.iterations;
@@ -249,6 +310,70 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
             Ok(ContinuousSolution { cut: best.0, errors: best.1, iterations })
         }
     }
+}
+
+/// Relative step below which Newton stops: the next (unevaluated) step
+/// is then about its square, far below the 1e-13 the callers need.
+const NEWTON_STOP: f64 = 1e-8;
+
+/// A root of g by Halley's method with g's exact first and second
+/// derivatives (`gs` returns all three; a non-finite second derivative or a
+/// Halley factor outside [½, 2] falls back to the Newton step), from
+/// `start`, for a g that crosses zero once, rising or falling as `rising`
+/// says, on [floor, ∞). Safeguarded: the points seen keep a bracket and a
+/// step leaving it is replaced by bisection. It stops when
+/// the step falls below [`NEWTON_STOP`] relative (plus 1e-13 of `scale`),
+/// returning the point after that step; (at least) quadratic convergence
+/// makes its error about the step squared. `None` (the caller then brackets and runs
+/// Brent's method) on a non-finite value, a slope of the wrong sign, a step
+/// below `floor` or 12 evaluations without converging.
+fn newton<G: Fn(f64) -> (f64, f64, f64)>(gs: G, start: f64, rising: bool, floor: f64, scale: f64, iterations: &mut usize) -> Option<f64> {
+    let (mut lo, mut hi) = (floor, f64::INFINITY);
+    let mut x = start;
+    let mut last_step = f64::NAN;
+    for _ in 0..12 {
+        let (g, slope, curvature) = gs(x);
+        *iterations += 1;
+        if !g.is_finite() {
+            return None;
+        }
+        if g == 0.0 {
+            return Some(x);
+        }
+        // The root lies above x where g has not yet reached 0.
+        if (g < 0.0) == rising {
+            lo = lo.max(x);
+        } else {
+            hi = hi.min(x);
+        }
+        if !slope.is_finite() || slope == 0.0 || (slope > 0.0) != rising {
+            return None;
+        }
+        let newton_step = g / slope;
+        // Halley: divide by 1 − g·g''/(2g'²) (Press et al., Numerical
+        // Recipes, 3rd ed., §9.4); cubic convergence from a fair start.
+        let factor = 1.0 - 0.5 * newton_step * curvature / slope;
+        let step = if factor.is_finite() && (0.5..=2.0).contains(&factor) { newton_step / factor } else { newton_step };
+        let mut next = x - step;
+        if !(next > lo && next < hi) {
+            if !(lo.is_finite() && hi.is_finite()) {
+                return None;
+            }
+            next = 0.5 * (lo + hi);
+        } else if step.abs() <= NEWTON_STOP * x.abs() + 1e-13 * scale {
+            return Some(next);
+        } else if step.abs() <= 1e-4 * x.abs() && step.abs() <= 0.1 * last_step.abs() {
+            // Quadratic convergence seen (e_next ≈ C·e², C from the last
+            // two steps): stop when the predicted next error is negligible.
+            let predicted = step * step * (step / (last_step * last_step)).abs();
+            if predicted <= 1e-15 * x.abs() {
+                return Some(next);
+            }
+        }
+        last_step = step;
+        x = next;
+    }
+    None
 }
 
 /// Two points 3 % either side of anchor + step; returns them (with g) when
@@ -409,8 +534,9 @@ impl<D: Discrete> DiscreteTail for D {
 /// D(k) = (1 − w)·p1(k) − w·p0(k); under a monotone likelihood ratio the sign
 /// of D changes once, so a bisection on the sign of ln((1−w)p1) − ln(w·p0)
 /// finds the optimum in O(log n) mass evaluations. Two-sided: the acceptance
-/// region grows by distance from the centre m0; the walk visits every
-/// distinct distance inside the range where either distribution has mass.
+/// region grows by distance from the centre m0; the walk visits the
+/// distinct distances near the optimum that bounds on the remaining mass
+/// leave in contention (every one, for windows under 200 counts).
 pub fn solve_discrete<D0: Discrete, D1: Discrete>(
     h0: &D0,
     h1: &D1,
@@ -418,19 +544,30 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
 ) -> Result<DiscreteSolution, ThresholdError> {
     let w = check_weight(setup.weight)?;
     let (lw0, lw1) = (w.ln(), (1.0 - w).ln());
-    let top = tail_end(h0)?.max(tail_end(h1)?);
+    // Counts above `top` carry mass below 1e-300 under both.
+    let top = mass_window_last(h0).max(mass_window_last(h1));
     // Sign of D(k): > 0 where the weighted H1 mass is larger.
     let d = |k: u64| (lw1 + h1.ln_pmf(k)) - (lw0 + h0.ln_pmf(k));
     let errors = |cut| discrete_errors(h0, h1, cut);
+    // (1 − w)·p1(x) − w·p0(x), 0 off the support.
+    let mass_step = |x: i64| if x < 0 { 0.0 } else { (1.0 - w) * h1.pmf(x as u64) - w * h0.pmf(x as u64) };
     match setup.alternative {
         Alternative::Greater => {
             // Smallest k in [0, top] with D(k) ≥ 0; none: never reject.
             let k = first_true(0, top, |k| d(k) >= 0.0).map_or(top as i64 + 1, |k| k as i64);
             let cut = DiscreteCut::AtLeast;
-            Ok(with_ties(k, cut, &errors, w, |c| match c {
-                DiscreteCut::AtLeast(k) => k,
-                _ => 0,
-            }))
+            // Rejecting X ≥ j + 1 instead of X ≥ j accepts X = j.
+            Ok(with_ties(
+                k,
+                cut,
+                &errors,
+                w,
+                |c| match c {
+                    DiscreteCut::AtLeast(k) => k,
+                    _ => 0,
+                },
+                mass_step,
+            ))
         }
         Alternative::Less => {
             // Largest k with D(k) ≥ 0, i.e. one below the first k with D < 0.
@@ -438,31 +575,56 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
                 Some(k) => k as i64 - 1,
                 None => top as i64,
             };
-            Ok(with_ties(k, DiscreteCut::AtMost, &errors, w, |c| match c {
-                DiscreteCut::AtMost(k) => k,
-                _ => 0,
-            }))
+            // Rejecting X ≤ j + 1 instead of X ≤ j rejects X = j + 1.
+            Ok(with_ties(
+                k,
+                DiscreteCut::AtMost,
+                &errors,
+                w,
+                |c| match c {
+                    DiscreteCut::AtMost(k) => k,
+                    _ => 0,
+                },
+                |j| -mass_step(j + 1),
+            ))
         }
-        Alternative::TwoSided => solve_discrete_two_sided(h0, h1, setup.centre, w, top),
+        Alternative::TwoSided => {
+            // Counts outside [first, top] carry mass below 1e-300 under both.
+            let first = mass_window_first(h0).min(mass_window_first(h1));
+            Ok(solve_discrete_two_sided(h0, h1, setup.centre, w, first, top))
+        }
     }
-}
-
-/// The last count worth looking at: beyond it both distributions have
-/// negligible mass.
-fn tail_end<D: Discrete>(d: &D) -> Result<u64, ThresholdError> {
-    Ok(mass_window(d).1)
 }
 
 /// The counts [first, last] outside which the mass is below e^−745 (the
 /// smallest f64) times the mass at the mode, found by bisection on the
 /// unimodal log-mass: O(log n) evaluations instead of a tail search.
 pub(crate) fn mass_window<D: Discrete>(d: &D) -> (u64, u64) {
-    let support = d.support_max();
-    let mode = (d.centre().max(0.0).floor() as u64).min(support);
-    let cutoff = d.ln_pmf(mode) - 745.0;
+    (mass_window_first(d), mass_window_last(d))
+}
+
+/// The first count of [`mass_window`] alone.
+fn mass_window_first<D: Discrete>(d: &D) -> u64 {
+    let (mode, cutoff) = window_mode(d);
+    first_true(0, mode, |k| d.ln_pmf(k) >= cutoff).unwrap_or(mode)
+}
+
+/// The last count of [`mass_window`] alone (all a one-sided solve needs).
+fn mass_window_last<D: Discrete>(d: &D) -> u64 {
+    let (mode, cutoff) = window_mode(d);
+    window_last(d, mode, cutoff)
+}
+
+/// The mode (floor of the centre) and the log-mass cut-off of the window.
+fn window_mode<D: Discrete>(d: &D) -> (u64, f64) {
+    let mode = (d.centre().max(0.0).floor() as u64).min(d.support_max());
+    (mode, d.ln_pmf(mode) - 745.0)
+}
+
+fn window_last<D: Discrete>(d: &D, mode: u64, cutoff: f64) -> u64 {
     let keep = |k: u64| d.ln_pmf(k) >= cutoff;
-    let first = first_true(0, mode, keep).unwrap_or(mode);
     // Upper end: the support's end, or doubling outward for unbounded laws.
+    let support = d.support_max();
     let mut hi = support;
     if support == u64::MAX {
         let mut step = 1u64;
@@ -475,11 +637,10 @@ pub(crate) fn mass_window<D: Discrete>(d: &D) -> (u64, u64) {
             hi = mode.saturating_add(step);
         }
     }
-    let last = match first_true(mode, hi, |k| !keep(k)) {
+    match first_true(mode, hi, |k| !keep(k)) {
         Some(k) => k.saturating_sub(1).max(mode),
         None => hi,
-    };
-    (first, last)
+    }
 }
 
 /// Smallest k in [lo, hi] with `p(k)` true, for a predicate that is false
@@ -497,28 +658,39 @@ fn first_true<P: Fn(u64) -> bool>(lo: u64, hi: u64, p: P) -> Option<u64> {
 }
 
 /// Gather the neighbours of `k` whose weighted error ties with it, and pick
-/// the one with the smallest α.
-fn with_ties<F, M, K>(k: i64, make: M, errors: &F, w: f64, key: K) -> DiscreteSolution
+/// the one with the smallest α. `step(j)` is E(j + 1) − E(j) from the two
+/// masses: a neighbour whose summed steps exceed the tie tolerance tenfold
+/// cannot tie (the tails agree with the masses to about 1e-15 of E), so its
+/// tails are not computed; any other is judged from its tails as before.
+fn with_ties<F, M, K, S>(k: i64, make: M, errors: &F, w: f64, key: K, step: S) -> DiscreteSolution
 where
     F: Fn(DiscreteCut) -> Errors,
     M: Fn(i64) -> DiscreteCut,
     K: Fn(DiscreteCut) -> i64,
+    S: Fn(i64) -> f64,
 {
     let e = errors(make(k));
     let best = e.weighted(w);
-    let tied = |x: &Errors| (x.weighted(w) - best).abs() <= TIE_TOLERANCE * best.max(f64::MIN_POSITIVE);
+    let scale = TIE_TOLERANCE * best.max(f64::MIN_POSITIVE);
+    let tied = |x: &Errors| (x.weighted(w) - best).abs() <= scale;
     let mut ties = vec![(make(k), e)];
-    for step in [-1i64, 1] {
-        let mut j = k + step;
+    for dir in [-1i64, 1] {
+        let mut j = k + dir;
+        // E(j) − E(k), from the masses.
+        let mut moved = 0.0;
         // More than a handful of exact ties cannot happen under a monotone
         // likelihood ratio; the bound keeps the walk finite regardless.
         for _ in 0..4 {
+            moved += if dir > 0 { step(j - 1) } else { -step(j) };
+            if moved.abs() > 10.0 * scale {
+                break;
+            }
             let ej = errors(make(j));
             if !tied(&ej) {
                 break;
             }
             ties.push((make(j), ej));
-            j += step;
+            j += dir;
         }
     }
     ties.sort_by_key(|(c, _)| key(*c));
@@ -534,31 +706,173 @@ fn solve_discrete_two_sided<D0: Discrete, D1: Discrete>(
     h1: &D1,
     m0: f64,
     w: f64,
+    first: u64,
     top: u64,
-) -> Result<DiscreteSolution, ThresholdError> {
-    // Counts outside [first, top] carry mass below 1e-300 under both.
-    let support = h0.support_max();
-    let first = mass_window(h0).0.min(mass_window(h1).0);
+) -> DiscreteSolution {
+    let candidates = match local_walk(h0, h1, m0, w, first, top) {
+        Some(c) => c,
+        None => full_walk(h0, h1, m0, w, first, top),
+    };
+    two_sided_pick(h0, h1, m0, w, candidates)
+}
+
+/// Two counts' distances from m0 that are the same up to rounding of m0.
+fn same_distance(a: f64, b: f64, m0: f64) -> bool {
+    (a - b).abs() <= 1e-9 * (1.0 + m0.abs())
+}
+
+/// Every candidate of the two-sided walk as (half-width, running weighted
+/// error): the acceptance region grows outward from m0 by distance, E
+/// starts at w (everything rejected, half-width −1) and each accepted count
+/// changes it by (1 − w)·p1(x) − w·p0(x). The running sum only ranks
+/// candidates; the winners are recomputed from the tails.
+fn full_walk<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, m0: f64, w: f64, first: u64, top: u64) -> Vec<(f64, f64)> {
     let mut points: Vec<(f64, u64)> = (first..=top).map(|x| ((x as f64 - m0).abs(), x)).collect();
     points.sort_by(|a, b| a.0.total_cmp(&b.0));
-    // Group equal distances: x = m0 ± d share one, up to rounding of m0.
-    let same = |a: f64, b: f64| (a - b).abs() <= 1e-9 * (1.0 + m0.abs());
-    let region = |half_width: f64| super::conventional::outside(m0, half_width, support);
-    // Walk outward. E starts at w (everything rejected) and each accepted
-    // count changes it by (1 − w)·p1(x) − w·p0(x). The running sum only
-    // ranks candidates; the winners are recomputed from the tails.
     let mut candidates: Vec<(f64, f64)> = vec![(-1.0, w)];
     let mut e = w;
     let mut i = 0;
     while i < points.len() {
         let d0 = points[i].0;
-        while i < points.len() && same(points[i].0, d0) {
+        while i < points.len() && same_distance(points[i].0, d0, m0) {
             let x = points[i].1;
             e += (1.0 - w) * h1.pmf(x) - w * h0.pmf(x);
             i += 1;
         }
         candidates.push((d0, e));
     }
+    candidates
+}
+
+/// Windows narrower than this are walked in full.
+const LOCAL_WALK_FROM: u64 = 200;
+
+/// The candidates of [`full_walk`] that can come within 1e-9 of the
+/// minimum, found without visiting the whole mass window.
+///
+/// Why it is exact: under a monotone likelihood ratio the increment
+/// (1 − w)·p1(x) − w·p0(x) is positive exactly on one side of a count x_c
+/// (found by bisection), which lies on H1's side of m0. (i) Every region
+/// that does not yet reach x_c has only negative increments, so its error
+/// is at least that of the largest such region: the walk starts there, from
+/// its error computed exactly from the tails. (ii) Once x_c is accepted,
+/// the only negative increments left are those of the counts beyond the
+/// far (H0-side) edge L, whose sum is at most w·P0(beyond L); so when
+/// E − w·P0(beyond L) exceeds the minimum so far by more than the
+/// closeness margin, no later region can come close, and the walk stops.
+/// (iii) Inward from the start the error only grows, so only the few
+/// regions still within the margin are listed. `None` (the caller walks in
+/// full) for narrow windows or when x_c is not on H1's side of m0.
+fn local_walk<D0: Discrete, D1: Discrete>(
+    h0: &D0,
+    h1: &D1,
+    m0: f64,
+    w: f64,
+    first: u64,
+    top: u64,
+) -> Option<Vec<(f64, f64)>> {
+    if top.saturating_sub(first) < LOCAL_WALK_FROM || !(m0 >= first as f64 && m0 <= top as f64) {
+        return None;
+    }
+    let (lw0, lw1) = (w.ln(), (1.0 - w).ln());
+    let ratio = |k: u64| (lw1 + h1.ln_pmf(k)) - (lw0 + h0.ln_pmf(k));
+    let inc = |k: u64| (1.0 - w) * h1.pmf(k) - w * h0.pmf(k);
+    let up = h1.centre() > h0.centre();
+    // x_c: the first positive count (up) or the last one (down).
+    let xc = if up {
+        first_true(first, top, |k| ratio(k) >= 0.0)?
+    } else {
+        first_true(first, top, |k| ratio(k) < 0.0)?.checked_sub(1)?
+    };
+    let dc = (xc as f64 - m0).abs();
+    if (up && xc as f64 <= m0) || (!up && xc as f64 >= m0) || xc < first || dc < 2.0 {
+        return None;
+    }
+    let tol = 1e-9 * (1.0 + m0.abs());
+    // (i) The largest region whose counts are all nearer than x_c.
+    let mut lo = ((m0 - dc + tol).ceil().max(first as f64)) as u64;
+    let mut hi = ((m0 + dc - tol).floor().min(top as f64)) as u64;
+    if lo > hi {
+        return None;
+    }
+    let region = |half_width: f64| super::conventional::outside(m0, half_width, h0.support_max());
+    let (lo_start, hi_start) = (lo, hi);
+    let d_start = (m0 - lo as f64).max(hi as f64 - m0);
+    let mut e = discrete_errors(h0, h1, region(d_start)).weighted(w);
+    let e_start = e;
+    let mut candidates = vec![(d_start, e)];
+    let mut best = e;
+    // (ii) Outward. `beyond` is P0 of the counts past the H0-side edge.
+    let exact_beyond = |lo: u64, hi: u64| if up { if lo == 0 { 0.0 } else { h0.cdf(lo - 1) } } else { h0.sf(hi) };
+    let mut beyond = exact_beyond(lo, hi);
+    let margin = |best: f64| best + 1e-9 * best.abs().max(1e-300);
+    let mut steps = 0u32;
+    loop {
+        let dl = if lo > first { m0 - (lo - 1) as f64 } else { f64::INFINITY };
+        let du = if hi < top { (hi + 1) as f64 - m0 } else { f64::INFINITY };
+        let d0 = dl.min(du);
+        if !d0.is_finite() {
+            break;
+        }
+        if same_distance(dl, d0, m0) {
+            lo -= 1;
+            e += inc(lo);
+            if up {
+                beyond -= h0.pmf(lo);
+            }
+        }
+        if same_distance(du, d0, m0) {
+            hi += 1;
+            e += inc(hi);
+            if !up {
+                beyond -= h0.pmf(hi);
+            }
+        }
+        candidates.push((d0, e));
+        best = best.min(e);
+        steps += 1;
+        let past_xc = if up { hi >= xc } else { lo <= xc };
+        // The running `beyond` is only an estimate; the stop is confirmed
+        // with the exact tail (at most every 16 steps).
+        if past_xc && e - w * beyond.max(0.0) * (1.0 + 1e-6) > margin(best) && steps >= 16 {
+            steps = 0;
+            beyond = exact_beyond(lo, hi);
+            if e - w * beyond > margin(best) {
+                break;
+            }
+        }
+    }
+    // (iii) Inward from the start: removing a count with a negative
+    // increment raises E, so stop at the first region past the margin.
+    let (mut lo, mut hi, mut e) = (lo_start as i64, hi_start as i64, e_start);
+    while e <= margin(best) && lo <= hi {
+        let (dl, du) = (m0 - lo as f64, hi as f64 - m0);
+        let d0 = dl.max(du);
+        let (drop_lo, drop_hi) = (same_distance(dl, d0, m0), same_distance(du, d0, m0));
+        if drop_lo {
+            e -= inc(lo as u64);
+        }
+        if drop_hi && !(drop_lo && lo == hi) {
+            e -= inc(hi as u64);
+        }
+        lo += drop_lo as i64;
+        hi -= drop_hi as i64;
+        if lo > hi {
+            candidates.push((-1.0, w));
+        } else {
+            candidates.push(((m0 - lo as f64).max(hi as f64 - m0), e));
+        }
+    }
+    Some(candidates)
+}
+
+/// From the walk's candidates to the solution: those within 1e-9 of the
+/// smallest running error are recomputed from the tails, ties within
+/// [`TIE_TOLERANCE`] are listed in order of half-width and the pick is the
+/// smallest α.
+fn two_sided_pick<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, m0: f64, w: f64, candidates: Vec<(f64, f64)>) -> DiscreteSolution {
+    let support = h0.support_max();
+    let region = |half_width: f64| super::conventional::outside(m0, half_width, support);
     let min = candidates.iter().map(|c| c.1).fold(f64::INFINITY, f64::min);
     // Anything close to the minimum in the running sum is re-evaluated.
     let mut close: Vec<(DiscreteCut, Errors)> = candidates
@@ -581,8 +895,9 @@ fn solve_discrete_two_sided<D0: Discrete, D1: Discrete>(
         _ => 0.0,
     };
     close.sort_by(|a, b| half(&a.0).total_cmp(&half(&b.0)));
+    close.dedup_by(|a, b| a.0 == b.0);
     let pickd = close.iter().copied().fold(close[0], |acc, x| if x.1.alpha < acc.1.alpha { x } else { acc });
-    Ok(DiscreteSolution { cut: pickd.0, errors: pickd.1, ties: close.into_iter().map(|c| c.0).collect() })
+    DiscreteSolution { cut: pickd.0, errors: pickd.1, ties: close.into_iter().map(|c| c.0).collect() }
 }
 
 #[cfg(test)]
@@ -631,6 +946,32 @@ mod tests {
         }
     }
 
+    /// The local two-sided walk lists exactly the ties and pick of the walk
+    /// over the whole mass window (its own definition), over a grid of
+    /// binomial designs both ways, with weights and with a half-integer m0.
+    #[test]
+    fn local_two_sided_walk_agrees_with_the_full_walk() {
+        use crate::engine::dist::Binomial;
+        let mut local_used = 0;
+        for n in [201u64, 250, 999, 1000, 3001, 20_000, 30_934] {
+            for (p0, p1) in [(0.5, 0.51), (0.5, 0.55), (0.5, 0.45), (0.3, 0.34), (0.6, 0.8), (0.02, 0.03), (0.9, 0.88)] {
+                for w in [0.5, 0.2, 0.8] {
+                    let (h0, h1) = (Binomial::new(n, p0).unwrap(), Binomial::new(n, p1).unwrap());
+                    let m0 = n as f64 * p0;
+                    let top = mass_window(&h0).1.max(mass_window(&h1).1);
+                    let first = mass_window(&h0).0.min(mass_window(&h1).0);
+                    let full = two_sided_pick(&h0, &h1, m0, w, full_walk(&h0, &h1, m0, w, first, top));
+                    if let Some(c) = local_walk(&h0, &h1, m0, w, first, top) {
+                        local_used += 1;
+                        let local = two_sided_pick(&h0, &h1, m0, w, c);
+                        assert_eq!(local, full, "n {n}, p0 {p0}, p1 {p1}, w {w}");
+                    }
+                }
+            }
+        }
+        assert!(local_used > 60, "{local_used}");
+    }
+
     /// Two-sided normal: c* solves 2φ(c) = φ(c − Δ) + φ(c + Δ), not Δ/2.
     #[test]
     fn two_sided_normal_solves_the_summed_equation() {
@@ -642,7 +983,11 @@ mod tests {
         let rhs = h1.pdf(c) + h1.pdf(-c);
         assert!((lhs - rhs).abs() < 1e-14 * lhs, "{c}");
         assert!(c > 1.5);
+        // The scan + Brent path (no single-crossing promise) finds the same
+        // root; the two root finders may differ in the last ulps (Brent
+        // stops at a 4-ulp bracket).
         let g = solve_continuous(&h0, &h1, setup(Alternative::TwoSided, 0.5, false)).unwrap();
-        assert_eq!(g.cut, s.cut);
+        let ContinuousCut::Outside { half_width: cg, .. } = g.cut else { panic!("wrong cut") };
+        assert!((cg - c).abs() <= 8.0 * f64::EPSILON * c, "{cg} vs {c}");
     }
 }

@@ -13,6 +13,7 @@ mod normal;
 mod poisson;
 mod special;
 mod student_t;
+mod t_beta;
 mod t_integral;
 
 pub use binomial::Binomial;
@@ -65,6 +66,14 @@ pub trait Continuous {
     /// Natural log of the density; finite wherever f(x) > 0, even where f(x)
     /// underflows to 0 in `f64`.
     fn ln_pdf(&self, x: f64) -> f64;
+    /// ln f(x) with its first and second derivatives in x, for Halley and
+    /// Newton steps on density crossings. The derivatives may be NaN (the
+    /// default) when they have no cheap form; callers then bracket instead.
+    /// Cheaper than separate calls where the density is an integral: all
+    /// three come from the same nodes.
+    fn ln_pdf_derivatives(&self, x: f64) -> (f64, f64, f64) {
+        (self.ln_pdf(x), f64::NAN, f64::NAN)
+    }
     /// Lower tail P(X ≤ x).
     fn cdf(&self, x: f64) -> f64;
     /// Upper tail P(X > x).

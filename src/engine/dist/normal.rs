@@ -95,6 +95,10 @@ impl Continuous for Normal {
         -0.5 * z * z - LN_SQRT_2PI - self.sd.ln()
     }
 
+    fn ln_pdf_derivatives(&self, x: f64) -> (f64, f64, f64) {
+        (self.ln_pdf(x), -self.z(x) / self.sd, -1.0 / (self.sd * self.sd))
+    }
+
     fn cdf(&self, x: f64) -> f64 {
         std_cdf(self.z(x))
     }

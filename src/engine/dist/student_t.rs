@@ -63,15 +63,23 @@ impl Continuous for StudentT {
         if nu > NU_LIMIT {
             return -0.5 * x * x - LN_SQRT_2PI;
         }
-        let x2 = x * x;
-        // ln(1 + x²/ν), rewritten for |x| > √ν so that x² may overflow
-        // without the logarithm doing so.
-        let ln_base = if x2 <= nu {
-            (x2 / nu).ln_1p()
+        ln_density_closed(x, nu, self.ln_f0)
+    }
+
+    fn ln_pdf_derivatives(&self, x: f64) -> (f64, f64, f64) {
+        // d/dx and d²/dx² of −(ν+1)/2·ln(1 + x²/ν); the normal limit's −x
+        // and −1 past NU_LIMIT.
+        let nu = self.df;
+        if nu > NU_LIMIT {
+            return (self.ln_pdf(x), -x, -1.0);
+        }
+        let r = 1.0 / (nu + x * x);
+        let (slope, curvature) = if r > 0.0 {
+            (-(nu + 1.0) * x * r, -(nu + 1.0) * (nu - x * x) * r * r)
         } else {
-            2.0 * x.abs().ln() - nu.ln() + (nu / x2).ln_1p()
+            (-(nu + 1.0) / x, (nu + 1.0) / (x * x))
         };
-        self.ln_f0 - 0.5 * (nu + 1.0) * ln_base
+        (self.ln_pdf(x), slope, curvature)
     }
 
     fn cdf(&self, x: f64) -> f64 {
@@ -97,6 +105,20 @@ impl Continuous for StudentT {
     fn spread(&self) -> f64 {
         t_spread(self.df, 0.0)
     }
+}
+
+/// ln f(x) of t(ν) from the closed form, given ln f(0) (see
+/// [`StudentT::new`]); finite x, ν ≤ the normal-limit switch.
+pub(super) fn ln_density_closed(x: f64, nu: f64, ln_f0: f64) -> f64 {
+    let x2 = x * x;
+    // ln(1 + x²/ν), rewritten for |x| > √ν so that x² may overflow
+    // without the logarithm doing so.
+    let ln_base = if x2 <= nu {
+        (x2 / nu).ln_1p()
+    } else {
+        2.0 * x.abs().ln() - nu.ln() + (nu / x2).ln_1p()
+    };
+    ln_f0 - 0.5 * (nu + 1.0) * ln_base
 }
 
 #[cfg(test)]

@@ -156,6 +156,11 @@ struct Integrand {
 }
 
 impl Integrand {
+    /// The integrand of the density (`density` true) or of P(T ≤ t).
+    fn new(t: f64, nu: f64, delta: f64, density: bool) -> Self {
+        Integrand { nu, sign: t.signum(), ln_abs_t: t.abs().ln(), delta, density }
+    }
+
     fn ts(&self, y: f64) -> f64 {
         self.sign * (y + self.ln_abs_t).exp()
     }
@@ -291,24 +296,31 @@ impl Integrand {
 
     /// ln of the integral of e^(ln_f) over the real line.
     fn ln_integral(&self) -> f64 {
+        self.ln_integral_with(|_| (0.0, 0.0)).0
+    }
+
+    /// ln of the integral of e^(ln_f), and the means of the two components
+    /// of `score(y)` under the weight e^(ln_f) (from the same nodes; 0 on
+    /// the adaptive path, which only tail integrands take).
+    fn ln_integral_with<S: Fn(f64) -> (f64, f64)>(&self, score: S) -> (f64, (f64, f64)) {
         let (y0, w) = self.mode();
         let peak = self.ln_f(y0);
         if !peak.is_finite() {
-            return peak;
+            return (peak, (f64::NAN, f64::NAN));
         }
         // A cliff of Φ(t·e^y − δ) at u = 0, of width about 1/|δ| in y, that
         // is much narrower than w and not negligible calls for adaptivity.
         if !self.density && self.sign * self.delta > 0.0 && self.delta.abs() * w > 1.0 {
             let yc = self.delta.abs().ln() - self.ln_abs_t;
             if self.ln_f(yc) - peak > -CUT {
-                return peak + self.adaptive(y0, w, yc, peak).ln();
+                return (peak + self.adaptive(y0, w, yc, peak).ln(), (0.0, 0.0));
             }
         }
         // The integrand is entire, but e^(2y) and Φ(−e^y) limit the strip
         // where it stays bounded to a width below π/4 in y, so the step in
         // y near the mode is held to Y_STEP however wide the peak is.
         let step = STEP.min(Y_STEP / w);
-        let mut sum = 1.0;
+        let (mut sum, mut scored) = (1.0, score(y0));
         // e^(κz) at z = ±k·step by repeated multiplication: sinh and cosh
         // without a transcendental call per node (the rounding grows like
         // k·ε, harmless for the few hundred nodes at most).
@@ -320,13 +332,19 @@ impl Integrand {
                 let (sinh, cosh) = (0.5 * (e - 1.0 / e), 0.5 * (e + 1.0 / e));
                 let y = y0 + side * w * sinh / KAPPA;
                 let v = self.ln_f(y) - peak;
-                sum += v.exp() * cosh;
+                let weight = v.exp() * cosh;
+                sum += weight;
+                if weight > 0.0 {
+                    let (a, b) = score(y);
+                    scored.0 += weight * a;
+                    scored.1 += weight * b;
+                }
                 if v < -CUT || v.is_nan() || !e.is_finite() {
                     break;
                 }
             }
         }
-        peak + (sum * step * w).ln()
+        (peak + (sum * step * w).ln(), (scored.0 / sum, scored.1 / sum))
     }
 
     /// ∫ e^(ln_f − peak) dy by adaptive Gauss–Kronrod on the range where
@@ -454,13 +472,14 @@ pub(super) fn ln_lower(t: f64, nu: f64, delta: f64) -> f64 {
         // T ≤ 0 exactly when Z ≤ −δ.
         return ln_std_cdf(-delta);
     }
-    let f = Integrand {
-        nu,
-        sign: t.signum(),
-        ln_abs_t: t.abs().ln(),
-        delta,
-        density: false,
-    };
+    if delta == 0.0 {
+        // The central t: the incomplete beta's continued fraction is a
+        // small fraction of the quadrature's cost where it converges fast.
+        if let Some(v) = super::t_beta::ln_lower_central(t, nu) {
+            return v.min(0.0);
+        }
+    }
+    let f = Integrand::new(t, nu, delta, false);
     // A probability next to 1 may come out a rounding above it.
     (ln_norm(nu) + f.ln_integral()).min(0.0)
 }
@@ -482,14 +501,58 @@ pub(super) fn ln_density(t: f64, nu: f64, delta: f64) -> f64 {
         // f(0) = E[S]·φ(δ) = √(2/ν)·Γ((ν+1)/2)/Γ(ν/2)·φ(δ).
         return ln_mean_s(nu) - 0.5 * delta * delta - LN_SQRT_2PI;
     }
-    let f = Integrand {
-        nu,
-        sign: t.signum(),
-        ln_abs_t: t.abs().ln(),
-        delta,
-        density: true,
-    };
+    if delta == 0.0 {
+        // The central t has a closed form; the quadrature is for δ ≠ 0.
+        return super::student_t::ln_density_closed(t, nu, ln_mean_s(nu) - LN_SQRT_2PI);
+    }
+    let f = Integrand::new(t, nu, delta, true);
     ln_norm(nu) + f.ln_integral()
+}
+
+/// ln f(t) for T ~ t(ν, δ) with d ln f/dt = f'/f and d² ln f/dt² =
+/// f''/f − (f'/f)², where f'(t) = −E[S²·u·φ(u)] and
+/// f''(t) = E[S³·(u² − 1)·φ(u)], u = t·S − δ: weighted means of −S·u and
+/// S²·(u² − 1) over the density's own quadrature nodes. The derivatives
+/// have the accuracy of means with cancelling signs (they steer Halley
+/// steps; roots are judged by the density alone).
+pub(super) fn ln_density_derivatives(t: f64, nu: f64, delta: f64) -> (f64, f64, f64) {
+    if let Some(v) = ln_density_fast_cases(t, nu, delta) {
+        return v;
+    }
+    let f = Integrand::new(t, nu, delta, true);
+    let (ln_i, (slope, second)) = f.ln_integral_with(|y| {
+        let s = y.exp();
+        let u = t * s - delta;
+        (-s * u, s * s * (u * u - 1.0))
+    });
+    (ln_norm(nu) + ln_i, slope, second - slope * slope)
+}
+
+/// The cases of [`ln_density_derivatives`] with a closed form: NaN, ±∞,
+/// the normal limit, t = 0 and δ = 0.
+fn ln_density_fast_cases(t: f64, nu: f64, delta: f64) -> Option<(f64, f64, f64)> {
+    if t.is_nan() || nu.is_nan() || delta.is_nan() {
+        return Some((f64::NAN, f64::NAN, f64::NAN));
+    }
+    if t.is_infinite() {
+        return Some((f64::NEG_INFINITY, f64::NAN, f64::NAN));
+    }
+    if nu > NU_LIMIT {
+        let sd = normal_limit_sd(nu, delta);
+        return Some((ln_density(t, nu, delta), -(t - delta) / (sd * sd), -1.0 / (sd * sd)));
+    }
+    if t == 0.0 {
+        // f(0) = E[S]·φ(δ), f'(0) = δ·φ(δ)·E[S²] = δ·φ(δ) and
+        // f''(0) = (δ² − 1)·φ(δ)·E[S³], E[S³] = E[S]·(ν + 1)/ν.
+        let slope = delta * (-ln_mean_s(nu)).exp();
+        let curvature = (delta * delta - 1.0) * (nu + 1.0) / nu - slope * slope;
+        return Some((ln_density(t, nu, delta), slope, curvature));
+    }
+    if delta == 0.0 {
+        let r = 1.0 / (nu + t * t);
+        return Some((ln_density(t, nu, delta), -(nu + 1.0) * t * r, -(nu + 1.0) * (nu - t * t) * r * r));
+    }
+    None
 }
 
 /// ln E[S] = ln(√(2/ν)·Γ((ν+1)/2)/Γ(ν/2)), by Stirling's series for large ν

@@ -1,0 +1,73 @@
+//! The designs of the benchmarks, shared by `benches/engine.rs` and
+//! `examples/bench_counts.rs` (instruction counts under callgrind).
+
+use tern::engine::design::{Design, DesignSpec, Family};
+use tern::engine::threshold::Alternative;
+
+/// The (df, ncp, x) points of `nct_cdf`, with their benchmark ids.
+pub const NCT_POINTS: [(&str, f64, f64, f64); 3] = [
+    ("df29_ncp1.64_x1.7", 29.0, 1.64, 1.7),
+    ("df200_ncp3_x-1", 200.0, 3.0, -1.0),
+    ("df1e4_ncp5_x4", 1e4, 5.0, 4.0),
+];
+
+pub const ALPHA_MAX: f64 = 0.05;
+pub const BETA_MAX: f64 = 0.2;
+
+pub fn spec(family: Family, alternative: Alternative) -> DesignSpec {
+    DesignSpec {
+        family: Some(family),
+        alternative: Some(alternative),
+        alpha_max: Some(ALPHA_MAX),
+        beta_max: Some(BETA_MAX),
+        ..DesignSpec::default()
+    }
+}
+
+/// A representative design of each family and the n (per group) it is
+/// solved at. Mirrored in compare_scipy.py (`SOLVES`).
+pub fn solve_cases() -> Vec<(String, Design, u64)> {
+    use Alternative::{Greater, TwoSided};
+    let d = |family, alternative, d: f64| DesignSpec { d: Some(d), ..spec(family, alternative) };
+    let cases: Vec<(&str, DesignSpec, u64)> = vec![
+        ("solve/mean_z", d(Family::MeanZ, Greater, 0.3), 121),
+        ("solve/mean_t", d(Family::MeanT, Greater, 0.3), 120),
+        ("solve/paired_t", d(Family::PairedT, Greater, 0.5), 50),
+        ("solve/two_means_pooled", d(Family::TwoMeansPooled, Greater, 0.5), 100),
+        (
+            "solve/two_means_welch",
+            DesignSpec {
+                theta0: Some(0.0),
+                theta1: Some(0.5),
+                sigma1: Some(1.0),
+                sigma2: Some(1.5),
+                ..spec(Family::TwoMeansWelch, Greater)
+            },
+            100,
+        ),
+        (
+            "solve/proportion_exact",
+            DesignSpec { theta0: Some(0.5), theta1: Some(0.6), ..spec(Family::ProportionExact, Greater) },
+            200,
+        ),
+        (
+            "solve/proportion_normal",
+            DesignSpec { theta0: Some(0.5), theta1: Some(0.6), ..spec(Family::ProportionNormal, Greater) },
+            200,
+        ),
+        (
+            "solve/two_proportions",
+            DesignSpec { p1: Some(0.6), p2: Some(0.5), ..spec(Family::TwoProportions, Greater) },
+            400,
+        ),
+        ("solve_two_sided/mean_t", d(Family::MeanT, TwoSided, 0.3), 120),
+    ];
+    cases
+        .into_iter()
+        .map(|(name, s, n)| {
+            let design = Design::new(&s).unwrap_or_else(|e| panic!("{name}: invalid design: {e}"));
+            (name.to_string(), design, n)
+        })
+        .collect()
+}
+
