@@ -200,6 +200,7 @@ async function main() {
     check('xlsx: both sheets offered', await page.locator('input[name="dr-sheet"]').count() === 2);
     await loaded(page, () => page.click('label.chip:has(input[name="dr-sheet"][value="Dose"])'));
     check('xlsx: the other sheet read', /sheet “Dose”, 3 data rows/.test(await text(page, '#data-source')), await text(page, '#data-source'));
+    await shot(page, 'data-xlsx.png');
     const st9 = await choose(page, 'valid.ods', corpus('valid.ods'), 'application/vnd.oasis.opendocument.spreadsheet');
     check('ods: read', st9 === 'ready' && /OpenDocument/.test(await text(page, '#data-source')), `${st9}: ${await text(page, '#data-source')}`);
     const st10 = await choose(page, 'truncated.xlsx', corpus('truncated.xlsx'), XLSX);
