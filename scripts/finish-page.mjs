@@ -17,7 +17,7 @@
 //
 // One-file edition (OUT.html): the same page with the style sheet, the
 // wasm-bindgen glue (exports removed), the base64 module and the boot code
-// inlined; its policy allows exactly those two inline blocks by their
+// inlined; its policy allows exactly those inline blocks by their
 // SHA-256 hashes. No service worker and no manifest: it works from file://.
 //
 // The spreadsheet reader (.xlsx, .ods) is a second WebAssembly module,
@@ -41,7 +41,7 @@ import { SERVED_POLICY, policy } from './page-policy.mjs';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 
-/** The one-file edition's policy: the two inline blocks by hash, nothing else. */
+/** The one-file edition's policy: its inline scripts and style by hash, nothing else. */
 const singlePolicy = (scriptHashes, styleHash) =>
   policy({ scripts: scriptHashes.map((h) => `'${h}'`).join(' '), styles: `'${styleHash}'`, images: 'data:', manifest: "'none'", worker: "'none'" });
 
