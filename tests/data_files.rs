@@ -479,3 +479,24 @@ mod never_panics {
         }
     }
 }
+
+/// The page reads spreadsheets in a second WebAssembly module and receives
+/// the grid as JSON (`tern_sheets::read_sheet_json`); through that path
+/// every spreadsheet of the corpus gives the same table or message as
+/// reading it in-process.
+#[cfg(feature = "spreadsheets")]
+#[test]
+fn a_sheet_sent_as_json_reads_as_the_file_does() {
+    use tern::engine::table::{read_grid, sheet_error, SheetError, SheetGrid};
+    for name in ["valid.xlsx", "valid.ods", "offset.xlsx", "truncated.xlsx"] {
+        for sheet in [None, Some("Dose"), Some("Nope")] {
+            let opts = ReadOptions { sheet: sheet.map(Into::into), ..ReadOptions::default() };
+            let direct = read_table(&bytes(name), Some(name), &opts);
+            let json = serde_json::to_string(&tern_sheets::read_sheet(&bytes(name), sheet)).unwrap();
+            let back: Result<SheetGrid, SheetError> = serde_json::from_str(&json).unwrap();
+            let via_json = back.map_err(sheet_error).and_then(|g| read_grid(&g, &opts));
+            // Compared as printed: missing cells are NaN, which equals nothing.
+            assert_eq!(format!("{direct:?}"), format!("{via_json:?}"), "{name}, sheet {sheet:?}");
+        }
+    }
+}

@@ -200,10 +200,22 @@ async function main() {
     check('xlsx: both sheets offered', await page.locator('input[name="dr-sheet"]').count() === 2);
     await loaded(page, () => page.click('label.chip:has(input[name="dr-sheet"][value="Dose"])'));
     check('xlsx: the other sheet read', /sheet “Dose”, 3 data rows/.test(await text(page, '#data-source')), await text(page, '#data-source'));
+    await shot(page, 'data-xlsx.png');
     const st9 = await choose(page, 'valid.ods', corpus('valid.ods'), 'application/vnd.oasis.opendocument.spreadsheet');
     check('ods: read', st9 === 'ready' && /OpenDocument/.test(await text(page, '#data-source')), `${st9}: ${await text(page, '#data-source')}`);
     const st10 = await choose(page, 'truncated.xlsx', corpus('truncated.xlsx'), XLSX);
     check('truncated xlsx: a message, the last table kept', st10 === 'error' && /could not be read/.test(await text(page, '#data-alert')) && /valid\.ods/.test(await text(page, '#data-source')), `${st10}: ${await text(page, '#data-alert')}`);
+    // The spreadsheet reader (the page's second WebAssembly module) failed
+    // to start: a message asking for CSV, the last table kept.
+    await page.evaluate(() => {
+      window.ternSheetsKept = globalThis.ternSheets;
+      globalThis.ternSheets = Promise.reject(new Error('no module in this test'));
+      globalThis.ternSheets.catch(() => {});
+    });
+    const st10b = await choose(page, 'valid.xlsx', corpus('valid.xlsx'), XLSX);
+    const alert10b = await text(page, '#data-alert');
+    check('spreadsheet reader failed to start: a message asking for CSV, the last table kept', st10b === 'error' && /could not start/.test(alert10b) && /CSV/.test(alert10b) && /valid\.ods/.test(await text(page, '#data-source')), `${st10b}: ${alert10b}`);
+    await page.evaluate(() => { globalThis.ternSheets = window.ternSheetsKept; });
 
     // 7. Paired columns: rows with one side missing are dropped and counted.
     await act(page, () => page.click('label.chip:has(input[name="family"][value="paired_t"])'));

@@ -6,7 +6,7 @@
 //
 // Usage: node tests/browser/firefox.mjs   (after scripts/build-single)
 
-import { existsSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import puppeteer from 'puppeteer-core';
@@ -73,6 +73,13 @@ async function main() {
     await page.$eval('#f-sigma', (e) => { e.value = '7'; e.dispatchEvent(new Event('input', { bubbles: true })); });
     await page.waitForFunction((n) => Number(document.getElementById('app').dataset.updates) > n, {}, before);
     check('firefox, file://: an input change recomputes', !/n = 54 /.test(await txt('#size-headline')), await txt('#size-headline'));
+    // The spreadsheet reader, the second (inlined) WebAssembly module.
+    const xlsx = readFileSync(join(root, 'tests', 'data_files', 'valid.xlsx')).toString('base64');
+    const grid = await page.evaluate(async (b64) => {
+      const reader = await globalThis.ternSheets;
+      return reader.read_sheet_json(Uint8Array.from(atob(b64), (c) => c.charCodeAt(0)), undefined);
+    }, xlsx);
+    check('firefox, file://: the spreadsheet module reads an .xlsx', /"sheets":\["Waiting times","Dose"\]/.test(grid), String(grid).slice(0, 200));
     const fetched = await page.evaluate(async () => {
       try {
         await fetch('http://127.0.0.1:9/never');

@@ -31,6 +31,21 @@ const single = join(root, 'dist-single', 'tern.html');
 const CHARTS = ['chart-sampling', 'chart-by-n', 'chart-tradeoff', 'chart-total'];
 const DESIGN_KEYS = new Set(['family', 'alternative', 'theta0', 'theta1', 'sigma', 'sigma1', 'sigma2', 'd', 'p1', 'p2', 'ratio', 'alpha_max', 'beta_max', 'weight', 'n']);
 
+// The spreadsheet reader is the page's second WebAssembly module: choose an
+// .xlsx and check that it is read (both sheets offered), in each edition.
+async function readsSpreadsheet(page, label) {
+  const before = await page.evaluate(() => Number(document.getElementById('app').dataset.fileLoads || 0));
+  await page.setInputFiles('#data-file', {
+    name: 'valid.xlsx',
+    mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+    buffer: readFileSync(join(root, 'tests', 'data_files', 'valid.xlsx')),
+  });
+  await page.waitForFunction((n) => Number(document.getElementById('app').dataset.fileLoads || 0) > n, before, { timeout: 20000 });
+  const state = await page.evaluate(() => document.getElementById('app').dataset.fileState);
+  const source = await text(page, '#data-source');
+  check(`${label}: an .xlsx is read by the spreadsheet module`, state === 'ready' && /Excel workbook/.test(source) && (await page.locator('input[name="dr-sheet"]').count()) === 2, `${state}: ${source} ${await text(page, '#data-alert')}`);
+}
+
 let passed = 0;
 let failed = 0;
 function check(name, ok, detail = '') {
@@ -196,6 +211,7 @@ async function servedEdition(browser) {
     await computesDemo(page, 'offline');
     await type(page, '#f-alpha_max', '0.05');
     check('offline: a changed design is computed', /n = \d+ in each group/.test(await text(page, '#size-headline')) && !/n = 54 /.test(await text(page, '#size-headline')), await text(page, '#size-headline'));
+    await readsSpreadsheet(page, 'offline');
     check('offline: no request failed', failedLoads.length === 0, failedLoads.join(', '));
     await page.screenshot({ path: join(artifacts, 'offline-reload.png') });
   } finally {
@@ -363,6 +379,7 @@ async function oneFile(browser, foreignHost) {
     check('one file: the version says which edition', /one-file edition/.test(await text(page, '#version')), await text(page, '#version'));
     await type(page, '#f-sigma', '7');
     check('one file: an input change recomputes', /n = \d+ in each group/.test(await text(page, '#size-headline')) && !/n = 54 /.test(await text(page, '#size-headline')), await text(page, '#size-headline'));
+    await readsSpreadsheet(page, 'one file');
     await page.click('#keep-save');
     await page.click('#keep-share');
     check('one file: a design is kept', (await page.locator('#keep-list li').count()) >= 1);

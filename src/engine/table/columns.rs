@@ -79,7 +79,6 @@ impl Column {
 pub(crate) enum Raw<'a> {
     Text(&'a str),
     /// A spreadsheet number (no text syntax involved).
-    #[cfg_attr(not(feature = "spreadsheets"), allow(dead_code))]
     Number(f64),
     Empty,
 }

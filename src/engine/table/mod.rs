@@ -31,7 +31,6 @@ mod mapping;
 mod notes;
 mod sniff;
 mod summary;
-#[cfg(feature = "spreadsheets")]
 mod workbook;
 
 pub use cells::{parse_number, CellValue};
@@ -39,6 +38,8 @@ pub use charts_data::{histogram, normal_quantile_points, Histogram, QQ_MAX_POINT
 pub use delimited::TableBuilder;
 pub use mapping::{group_values, summarise, DataSummary, GroupStats, Mapping, MappingError};
 pub use summary::Moments;
+pub use tern_sheets::{Cell as SheetCell, Grid as SheetGrid, SheetError};
+pub use workbook::{read_grid, sheet_error};
 
 use columns::Column;
 use serde::{Deserialize, Serialize};
@@ -245,6 +246,13 @@ pub fn read_table(bytes: &[u8], name: Option<&str>, opts: &ReadOptions) -> Resul
         }
         sniff::Container::Zip => read_zip(bytes, opts),
     }
+}
+
+/// Whether [`read_table`] would take these bytes as a spreadsheet (a zip
+/// archive): the page then reads the sheet with its spreadsheet module and
+/// passes the grid to [`read_grid`].
+pub fn is_spreadsheet(bytes: &[u8], name: Option<&str>) -> bool {
+    matches!(sniff::format_of(bytes, name), Ok(sniff::Container::Zip))
 }
 
 /// A zip archive: a spreadsheet when this build reads them.

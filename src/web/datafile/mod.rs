@@ -13,6 +13,7 @@
 
 mod fill;
 mod mapping;
+mod sheets;
 mod show;
 
 use super::{dom, listen};
@@ -254,6 +255,9 @@ async fn read(source: &Source, name: &str, opts: &ReadOptions, token: u64) -> Re
                 show::progress(Some((0.0, format!("Reading the spreadsheet “{name}”"))));
                 pause().await;
                 let all = bytes(f, 0.0, size).await?;
+                if table::is_spreadsheet(&all, Some(name)) {
+                    return sheets::read_workbook(&all, name, opts).await;
+                }
                 return table::read_table(&all, Some(name), opts).map_err(|e| e.to_string());
             }
             let t0 = dom::now_ms();
