@@ -243,12 +243,18 @@ pub fn mapping(t: &Table, s: Shape, c: &Choice) {
     for &r in mapping::roles(s) {
         let cands = mapping::candidates(t, r, c);
         if cands.is_empty() {
-            let need = match r {
-                Role::Value | Role::First | Role::Second => "The table has no column of numbers for this question.",
-                Role::Group | Role::Outcome => "The table has no column with at least two different values for this question.",
-                _ => "Choose the column first.",
+            let text = match r {
+                Role::Value | Role::First | Role::Second => {
+                    format!("{} The table has no column of numbers for this question.", r.question())
+                }
+                Role::Group | Role::Outcome => {
+                    format!("{} The table has no column with at least two different values for this question.", r.question())
+                }
+                Role::Level1 => "Group 1: choose the column that says the group first.".to_string(),
+                Role::Level2 => "Group 2: choose the column that says the group first.".to_string(),
+                Role::Success => "Success: choose the column that holds the outcome first.".to_string(),
             };
-            if let Some(p) = dom::add(&div, "p", &format!("{} {need}", r.question())) {
+            if let Some(p) = dom::add(&div, "p", &text) {
                 let _ = p.set_attribute("class", "msg general");
             }
             continue;
