@@ -12,14 +12,21 @@ use super::page_canvas::PageCanvas;
 
 const CHARTS: [&str; 4] = ["chart-sampling", "chart-by-n", "chart-tradeoff", "chart-total"];
 
-/// Size a canvas; returns it with the pixel scale, or `None` when it is
-/// not laid out (hidden or missing).
-fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
+/// A canvas with its laid-out CSS width, read before anything is written.
+type Measured = Option<(web_sys::HtmlCanvasElement, f64)>;
+
+/// Read a canvas's CSS width; `None` when it is not laid out (hidden or
+/// missing). Reading layout after a write makes the browser lay the page
+/// out again, so every width is read before any canvas is resized.
+fn measure(id: &str) -> Measured {
     let canvas = dom::canvas(id)?;
     let css_w = canvas.client_width() as f64;
-    if css_w < 10.0 {
-        return None;
-    }
+    (css_w >= 10.0).then_some((canvas, css_w))
+}
+
+/// Size a measured canvas for its width and the screen; returns it with
+/// the pixel scale.
+fn prepare((canvas, css_w): (web_sys::HtmlCanvasElement, f64)) -> (web_sys::HtmlCanvasElement, Look) {
     let dpr = dom::window().map_or(1.0, |w| w.device_pixel_ratio());
     let look = Look::new(dpr);
     // Wide charts get a flatter shape; narrow ones stay readable.
@@ -35,14 +42,19 @@ fn prepare(id: &str) -> Option<(web_sys::HtmlCanvasElement, Look)> {
     if canvas.height() != h {
         canvas.set_height(h);
     }
-    Some((canvas, look))
+    (canvas, look)
 }
 
 /// A chart drawn on the canvas backend.
 pub(super) type Painter<'a> = &'a dyn Fn(&DrawingArea<PageCanvas, Shift>, &Look) -> DrawResult<PageCanvas>;
 
 pub(super) fn paint(id: &str, draw: Painter<'_>) {
-    let Some((canvas, look)) = prepare(id) else { return };
+    paint_measured(id, measure(id), draw);
+}
+
+fn paint_measured(id: &str, measured: Measured, draw: Painter<'_>) {
+    let Some(m) = measured else { return };
+    let (canvas, look) = prepare(m);
     let Some(backend) = PageCanvas::new(canvas) else { return };
     let root = backend.into_drawing_area();
     if let Err(e) = draw(&root, &look).and_then(|_| root.present()) {
@@ -51,20 +63,19 @@ pub(super) fn paint(id: &str, draw: Painter<'_>) {
 }
 
 pub fn draw_all(v: &Views) {
+    // All four widths first: one layout at most, not one per chart.
+    let [s, n, t, e] = CHARTS.map(measure);
     // Each chart's drawing time in ms, kept on the canvas for the browser test.
-    let timed = |id: &str, draw: Painter<'_>| {
+    let timed = |id: &str, m: Measured, draw: Painter<'_>| {
         let t0 = dom::now_ms();
-        paint(id, draw);
+        paint_measured(id, m, draw);
         dom::set_attr(id, "data-draw-ms", Some(&format!("{:.2}", dom::now_ms() - t0)));
     };
-    timed("chart-sampling", &|a, l| sampling::draw(a, &v.sampling, l));
-    timed("chart-by-n", &|a, l| by_n::draw(a, &v.by_n, l));
-    timed("chart-tradeoff", &|a, l| tradeoff::draw(a, &v.tradeoff, l));
-    timed("chart-total", &|a, l| total_error::draw(a, &v.total, l));
-    dom::set_html("table-sampling", &table::sampling(&v.sampling));
-    dom::set_html("table-by-n", &table::by_n(&v.by_n));
-    dom::set_html("table-tradeoff", &table::tradeoff(&v.tradeoff));
-    dom::set_html("table-total", &table::total_error(&v.total));
+    timed("chart-sampling", s, &|a, l| sampling::draw(a, &v.sampling, l));
+    timed("chart-by-n", n, &|a, l| by_n::draw(a, &v.by_n, l));
+    timed("chart-tradeoff", t, &|a, l| tradeoff::draw(a, &v.tradeoff, l));
+    timed("chart-total", e, &|a, l| total_error::draw(a, &v.total, l));
+    fill_tables(Some(v), false);
     let s = &v.sampling;
     let cuts = s.cut_text.join(" and ");
     label(
@@ -114,8 +125,38 @@ pub fn clear_all() {
         });
         label(id, "Empty: the design is incomplete.");
     }
-    for t in ["table-sampling", "table-by-n", "table-tradeoff", "table-total"] {
-        dom::set_html(t, "");
-    }
+    fill_tables(None, false);
     dom::set_text("cap-n", "—");
+}
+
+const TABLES: [&str; 4] = ["table-sampling", "table-by-n", "table-tradeoff", "table-total"];
+
+/// Write each chart's numbers table, or empty it without views. A table
+/// whose `<details>` is closed is only marked stale (its HTML is hundreds
+/// of rows, rebuilt on every keystroke otherwise) and written when it is
+/// opened: `opened` is true for that call, from the details' toggle event,
+/// and then only stale tables are written.
+pub fn fill_tables(v: Option<&Views>, opened: bool) {
+    for id in TABLES {
+        let Some(el) = dom::by_id(id) else { continue };
+        let open = el.parent_element().is_some_and(|d| d.has_attribute("open"));
+        if !open {
+            let _ = el.set_attribute("data-stale", "true");
+            continue;
+        }
+        if opened && el.get_attribute("data-stale").is_none() {
+            continue;
+        }
+        let html = match v {
+            None => String::new(),
+            Some(v) => match id {
+                "table-sampling" => table::sampling(&v.sampling),
+                "table-by-n" => table::by_n(&v.by_n),
+                "table-tradeoff" => table::tradeoff(&v.tradeoff),
+                _ => table::total_error(&v.total),
+            },
+        };
+        el.set_inner_html(&html);
+        let _ = el.remove_attribute("data-stale");
+    }
 }

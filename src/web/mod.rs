@@ -111,6 +111,16 @@ fn setup() -> Result<(), JsValue> {
     redraw.forget();
     STATE.with(|s| s.borrow_mut().redraw = Some(redraw_fn));
     listen(&window, "resize", |_| schedule_redraw())?;
+    // A chart's numbers table is written when its <details> opens ("toggle"
+    // does not bubble, so each one listens).
+    for id in ["table-sampling", "table-by-n", "table-tradeoff", "table-total"] {
+        if let Some(details) = dom::by_id(id).and_then(|t| t.parent_element()) {
+            listen(&details, "toggle", |_| {
+                let views = STATE.with(|s| s.borrow().views.clone());
+                canvas::fill_tables(views.as_deref(), true);
+            })?;
+        }
+    }
     offline::setup()?;
     saved::setup()?;
     datafile::setup()?;

@@ -96,6 +96,16 @@ async function main() {
 
     // The demo.
     check('demo: sample size shown', /n = 54 in each group/.test(await text(page, '#size-headline')), await text(page, '#size-headline'));
+    // A chart's numbers table is written when its <details> is opened, and
+    // follows the design while it stays open.
+    await page.locator('#table-by-n').evaluate((t) => { t.parentElement.open = true; });
+    await page.waitForFunction(() => document.querySelectorAll('#table-by-n tr').length > 10, null, { timeout: 5000 });
+    const rowsBefore = await page.locator('#table-by-n').innerText();
+    check('numbers table: filled when opened', /54/.test(rowsBefore), rowsBefore.slice(0, 80));
+    await type(page, '#f-theta1', '-4');
+    check('numbers table: follows the design while open', (await page.locator('#table-by-n').innerText()) !== rowsBefore);
+    await type(page, '#f-theta1', '-3');
+    await page.locator('#table-by-n').evaluate((t) => { t.parentElement.open = false; });
     check('demo: decision shown', (await text(page, '#decide-title')) === 'Reject H0', await text(page, '#decide-title'));
     check('demo: caution visible', await page.locator('.caution').isVisible());
     check('demo: limits filled', (await page.inputValue('#f-alpha_max')) === '0.10');
@@ -103,8 +113,13 @@ async function main() {
       const info = await canvasInfo(page, id);
       check(`demo: ${id} drawn`, info && info.ink > 0.02, JSON.stringify(info));
       check(`demo: ${id} sized for devicePixelRatio`, info && info.dpr === 2 && Math.abs(info.width - info.cssWidth * 2) <= 2, JSON.stringify(info));
-      const table = await page.locator(`#${id.replace('chart-', 'table-')} table`).count();
+      // Its numbers table, written when its <details> opens.
+      const tableId = `#${id.replace('chart-', 'table-')}`;
+      await page.locator(tableId).evaluate((t) => { t.parentElement.open = true; });
+      await page.waitForFunction((sel) => document.querySelector(`${sel} table`) !== null, tableId, { timeout: 5000 }).catch(() => {});
+      const table = await page.locator(`${tableId} table`).count();
       check(`demo: ${id} has its table`, table === 1);
+      await page.locator(tableId).evaluate((t) => { t.parentElement.open = false; });
     }
     await page.screenshot({ path: join(artifacts, 'demo-first-screen.png') });
     await fullPage(page, 'demo.png');
