@@ -544,8 +544,8 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
 ) -> Result<DiscreteSolution, ThresholdError> {
     let w = check_weight(setup.weight)?;
     let (lw0, lw1) = (w.ln(), (1.0 - w).ln());
-    // Counts above `top` carry mass below 1e-300 under both.
-    let top = mass_window_last(h0).max(mass_window_last(h1));
+    // Counts above `top()` carry mass below 1e-300 under both.
+    let top = || mass_window_last(h0).max(mass_window_last(h1));
     // Sign of D(k): > 0 where the weighted H1 mass is larger.
     let d = |k: u64| (lw1 + h1.ln_pmf(k)) - (lw0 + h0.ln_pmf(k));
     let errors = |cut| discrete_errors(h0, h1, cut);
@@ -554,7 +554,13 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
     match setup.alternative {
         Alternative::Greater => {
             // Smallest k in [0, top] with D(k) ≥ 0; none: never reject.
-            let k = first_true(0, top, |k| d(k) >= 0.0).map_or(top as i64 + 1, |k| k as i64);
+            let k = match quick_first(h0, h1, &d, |v| v >= 0.0) {
+                Some(k) => k as i64,
+                None => {
+                    let top = top();
+                    first_true(0, top, |k| d(k) >= 0.0).map_or(top as i64 + 1, |k| k as i64)
+                }
+            };
             let cut = DiscreteCut::AtLeast;
             // Rejecting X ≥ j + 1 instead of X ≥ j accepts X = j.
             Ok(with_ties(
@@ -571,9 +577,15 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
         }
         Alternative::Less => {
             // Largest k with D(k) ≥ 0, i.e. one below the first k with D < 0.
-            let k = match first_true(0, top, |k| d(k) < 0.0) {
+            let k = match quick_first(h0, h1, &d, |v| v < 0.0) {
                 Some(k) => k as i64 - 1,
-                None => top as i64,
+                None => {
+                    let top = top();
+                    match first_true(0, top, |k| d(k) < 0.0) {
+                        Some(k) => k as i64 - 1,
+                        None => top as i64,
+                    }
+                }
             };
             // Rejecting X ≤ j + 1 instead of X ≤ j rejects X = j + 1.
             Ok(with_ties(
@@ -591,9 +603,47 @@ pub fn solve_discrete<D0: Discrete, D1: Discrete>(
         Alternative::TwoSided => {
             // Counts outside [first, top] carry mass below 1e-300 under both.
             let first = mass_window_first(h0).min(mass_window_first(h1));
-            Ok(solve_discrete_two_sided(h0, h1, setup.centre, w, first, top))
+            Ok(solve_discrete_two_sided(h0, h1, setup.centre, w, first, top()))
         }
     }
+}
+
+/// The first k where `pred(D(k))` holds, for the one-sided solves, found
+/// without the mass window when that gives the same answer: over the whole
+/// support of two laws with the same finite support, D(k) = ln p1(k) −
+/// ln p0(k) + const is linear in k (binomials of one n share their
+/// binomial coefficient), so the crossing is interpolated from the two
+/// ends and confirmed at k and k − 1, with a bisection inside the bracket
+/// the guess leaves when it misses. The answer is then the one a search
+/// over the mass window [0, top] gives exactly when k lies in that window,
+/// which two masses at k show. `None` (the caller searches the window as
+/// before): an unbounded support, no such k, or k outside the window.
+fn quick_first<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, d: &dyn Fn(u64) -> f64, pred: fn(f64) -> bool) -> Option<u64> {
+    let hi = h0.support_max();
+    if hi != h1.support_max() || hi == u64::MAX {
+        return None;
+    }
+    let (dl, dh) = (d(0), d(hi));
+    if !(dl.is_finite() && dh.is_finite()) || !pred(dh) {
+        return None;
+    }
+    let k = if pred(dl) {
+        0
+    } else {
+        let t = (-dl / (dh - dl)).clamp(0.0, 1.0);
+        let g = ((t * hi as f64).ceil() as u64).clamp(1, hi);
+        match (pred(d(g)), pred(d(g - 1))) {
+            (true, false) => g,
+            (true, true) => first_true(0, g - 1, |k| pred(d(k)))?,
+            (false, _) => first_true(g + 1, hi, |k| pred(d(k)))?,
+        }
+    };
+    // In the window of either law: at or below its mode, or its mass there
+    // above the window's cut-off.
+    let inside = |mode: u64, cutoff: f64, ln_pmf: f64| k <= mode || ln_pmf >= cutoff;
+    let (m0, c0) = window_mode(h0);
+    let (m1, c1) = window_mode(h1);
+    (inside(m0, c0, h0.ln_pmf(k)) || inside(m1, c1, h1.ln_pmf(k))).then_some(k)
 }
 
 /// The counts [first, last] outside which the mass is below e^−745 (the
@@ -907,6 +957,32 @@ mod tests {
 
     fn setup(alternative: Alternative, weight: f64, single: bool) -> Setup {
         Setup { alternative, centre: 0.0, weight, single_crossing: single }
+    }
+
+    /// The one-sided discrete crossing found by interpolation over the
+    /// support is the one the bisection over the mass window finds, or the
+    /// quick path declines (`None`) and the window search runs as before.
+    #[test]
+    fn quick_crossing_agrees_with_the_window_search() {
+        use crate::engine::dist::Binomial;
+        let mut quick = 0;
+        for n in [1u64, 2, 3, 7, 20, 61, 200, 1000, 5000] {
+            for (p0, p1) in [(0.5, 0.6), (0.6, 0.8), (0.1, 0.05), (0.01, 0.02), (0.9, 0.95), (0.3, 0.1), (0.5, 0.501), (1e-4, 0.5)] {
+                for w in [0.1, 0.5, 0.9] {
+                    let (h0, h1) = (Binomial::new(n, p0).unwrap(), Binomial::new(n, p1).unwrap());
+                    let (lw0, lw1) = (f64::ln(w), f64::ln(1.0 - w));
+                    let d = |k: u64| (lw1 + h1.ln_pmf(k)) - (lw0 + h0.ln_pmf(k));
+                    let top = mass_window_last(&h0).max(mass_window_last(&h1));
+                    for pred in [(|v: f64| v >= 0.0) as fn(f64) -> bool, |v: f64| v < 0.0] {
+                        if let Some(k) = quick_first(&h0, &h1, &d, pred) {
+                            quick += 1;
+                            assert_eq!(Some(k), first_true(0, top, |k| pred(d(k))), "n {n}, p0 {p0}, p1 {p1}, w {w}");
+                        }
+                    }
+                }
+            }
+        }
+        assert!(quick > 100, "the quick path ran only {quick} times");
     }
 
     /// Fact of the trade (common practice, no source): for a symmetric
