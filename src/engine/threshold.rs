@@ -624,7 +624,7 @@ fn quick_first<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, d: &dyn Fn(u64) -> 
         return None;
     }
     let (dl, dh) = (d(0), d(hi));
-    if !(dl.is_finite() && dh.is_finite()) || !pred(dh) {
+    if !(dl.is_finite() && dh.is_finite() && pred(dh)) {
         return None;
     }
     let k = if pred(dl) {
