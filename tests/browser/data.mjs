@@ -16,15 +16,10 @@
 
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { root, dist, artifacts, startServer, stopServer, launch, text, act } from './lib.mjs';
+import { root, dist, artifacts, startServer, stopServer, launch, text, act, check, run } from './lib.mjs';
 
 mkdirSync(artifacts, { recursive: true });
 
-let passed = 0;
-let failed = 0;
-function check(name, ok, detail = '') {
-  if (ok) { passed += 1; console.log(`ok   ${name}`); } else { failed += 1; console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`); }
-}
 
 const loads = (page) => page.evaluate(() => Number(document.getElementById('app').dataset.fileLoads || 0));
 
@@ -261,12 +256,4 @@ async function main() {
   }
 }
 
-try {
-  await main();
-} catch (e) {
-  failed += 1;
-  console.log(`FAIL data test stopped: ${e.stack || e}`);
-}
-console.log(`screenshots in ${artifacts}`);
-console.log(`${passed} passed, ${failed} failed`);
-process.exit(failed === 0 ? 0 : 1);
+await run('data', main, () => console.log(`screenshots in ${artifacts}`));

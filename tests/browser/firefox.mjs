@@ -10,23 +10,12 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import puppeteer from 'puppeteer-core';
-import { root, artifacts } from './lib.mjs';
+import { root, artifacts, check, run } from './lib.mjs';
 
 const FIREFOX = '/usr/bin/firefox-esr';
 const single = join(root, 'dist-single', 'tern.html');
 const CHARTS = ['chart-sampling', 'chart-by-n', 'chart-tradeoff', 'chart-total'];
 
-let passed = 0;
-let failed = 0;
-function check(name, ok, detail = '') {
-  if (ok) {
-    passed += 1;
-    console.log(`ok   ${name}`);
-  } else {
-    failed += 1;
-    console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`);
-  }
-}
 
 async function main() {
   if (!existsSync(single)) throw new Error('dist-single/tern.html is missing: run scripts/build-single first');
@@ -103,11 +92,4 @@ if (!existsSync(FIREFOX)) {
   console.log(`firefox test skipped: ${FIREFOX} is not installed (scripts/install-tools installs it)`);
   process.exit(0);
 }
-try {
-  await main();
-} catch (e) {
-  failed += 1;
-  console.log(`FAIL firefox test stopped: ${e.stack || e}`);
-}
-console.log(`${passed} passed, ${failed} failed`);
-process.exit(failed === 0 ? 0 : 1);
+await run('firefox', main);

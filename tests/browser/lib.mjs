@@ -63,3 +63,32 @@ export async function act(page, action) {
   await action();
   await page.waitForFunction((n) => Number(document.getElementById('app').dataset.updates || 0) > n, before, { timeout: 5000 });
 }
+
+// The tally every browser test keeps: `check` prints one "ok" or "FAIL"
+// line per assertion; `run` runs the test's main function (an exception
+// counts as one failure), prints "N passed, N failed" and exits with the
+// verdict. `after` prints anything the test wants said before the tally.
+let passed = 0;
+let failed = 0;
+
+export function check(name, ok, detail = '') {
+  if (ok) {
+    passed += 1;
+    console.log(`ok   ${name}`);
+  } else {
+    failed += 1;
+    console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`);
+  }
+}
+
+export async function run(name, main, after = () => {}) {
+  try {
+    await main();
+  } catch (e) {
+    failed += 1;
+    console.log(`FAIL ${name} test stopped: ${e.stack || e}`);
+  }
+  after();
+  console.log(`${passed} passed, ${failed} failed`);
+  process.exit(failed === 0 ? 0 : 1);
+}

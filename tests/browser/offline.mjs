@@ -24,7 +24,7 @@ import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, 
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { root, dist, artifacts, launch, text, type } from './lib.mjs';
+import { root, dist, artifacts, launch, text, type, check, run } from './lib.mjs';
 import { headersFor } from '../../scripts/page-policy.mjs';
 
 const single = join(root, 'dist-single', 'tern.html');
@@ -46,17 +46,6 @@ async function readsSpreadsheet(page, label) {
   check(`${label}: an .xlsx is read by the spreadsheet module`, state === 'ready' && /Excel workbook/.test(source) && (await page.locator('input[name="dr-sheet"]').count()) === 2, `${state}: ${source} ${await text(page, '#data-alert')}`);
 }
 
-let passed = 0;
-let failed = 0;
-function check(name, ok, detail = '') {
-  if (ok) {
-    passed += 1;
-    console.log(`ok   ${name}`);
-  } else {
-    failed += 1;
-    console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`);
-  }
-}
 
 // A static server for `dir` that logs every request it receives.
 function serve(dir, env = {}) {
@@ -432,9 +421,9 @@ async function designs(browser) {
     check('export: design fields only, no data', Object.keys(exported).every((k) => DESIGN_KEYS.has(k)) && exported.family === 'two_means_pooled', JSON.stringify(exported));
     const cli = join(root, 'target', 'release', 'tern');
     if (existsSync(cli)) {
-      const run = spawnSync(cli, ['run', file], { encoding: 'utf8' });
-      const n1 = run.status === 0 ? JSON.parse(run.stdout).sample_size.youden.n1 : null;
-      check('export: `tern run` answers the exported file (n1 = 54)', n1 === 54, run.stderr || run.stdout.slice(0, 200));
+      const answered = spawnSync(cli, ['run', file], { encoding: 'utf8' });
+      const n1 = answered.status === 0 ? JSON.parse(answered.stdout).sample_size.youden.n1 : null;
+      check('export: `tern run` answers the exported file (n1 = 54)', n1 === 54, answered.stderr || answered.stdout.slice(0, 200));
     }
 
     // Import: the exported file restores the design; bad files are refused by field.
@@ -516,11 +505,4 @@ async function main() {
   for (const f of figures) console.log(`figure: ${f}`);
 }
 
-try {
-  await main();
-} catch (e) {
-  failed += 1;
-  console.log(`FAIL offline test stopped: ${e.stack || e}`);
-}
-console.log(`${passed} passed, ${failed} failed`);
-process.exit(failed === 0 ? 0 : 1);
+await run('offline', main);

@@ -12,16 +12,11 @@
 import { execFileSync } from 'node:child_process';
 import { existsSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { root, dist, artifacts, startServer, stopServer, launch, text, type, act } from './lib.mjs';
+import { root, dist, artifacts, startServer, stopServer, launch, text, type, act, check, run } from './lib.mjs';
 
 mkdirSync(artifacts, { recursive: true });
 const bin = join(root, 'target', 'release', 'tern');
 
-let passed = 0;
-let failed = 0;
-function check(name, ok, detail = '') {
-  if (ok) { passed += 1; console.log(`ok   ${name}`); } else { failed += 1; console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`); }
-}
 
 function cli(design) {
   return JSON.parse(execFileSync(bin, ['run', '-'], { input: JSON.stringify(design), encoding: 'utf8' }));
@@ -187,11 +182,4 @@ async function main() {
   }
 }
 
-try {
-  await main();
-} catch (e) {
-  failed += 1;
-  console.log(`FAIL parity test stopped: ${e.stack || e}`);
-}
-console.log(`${passed} passed, ${failed} failed`);
-process.exit(failed === 0 ? 0 : 1);
+await run('parity', main);

@@ -14,21 +14,10 @@
 import { mkdirSync, readdirSync, readFileSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import { root, dist, artifacts, startServer, stopServer, launch, text, type } from './lib.mjs';
+import { root, dist, artifacts, startServer, stopServer, launch, text, type, check, run } from './lib.mjs';
 
 mkdirSync(artifacts, { recursive: true });
 
-let passed = 0;
-let failed = 0;
-function check(name, ok, detail = '') {
-  if (ok) {
-    passed += 1;
-    console.log(`ok   ${name}`);
-  } else {
-    failed += 1;
-    console.log(`FAIL ${name}${detail ? `: ${detail}` : ''}`);
-  }
-}
 
 // Fraction of a canvas's pixels that are not white, and a checksum.
 async function canvasInfo(page, id) {
@@ -264,12 +253,4 @@ async function main() {
   }
 }
 
-try {
-  await main();
-} catch (e) {
-  failed += 1;
-  console.log(`FAIL smoke test stopped: ${e.stack || e}`);
-}
-console.log(`screenshots in ${artifacts}`);
-console.log(`${passed} passed, ${failed} failed`);
-process.exit(failed === 0 ? 0 : 1);
+await run('smoke', main, () => console.log(`screenshots in ${artifacts}`));
