@@ -23,7 +23,7 @@
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
 use std::time::Duration;
-use tern::engine::design::{Design, DesignSpec, Family};
+use tern::engine::design::{Design, Family};
 use tern::engine::dist::{Continuous, NoncentralT};
 use tern::engine::evaluate::{Cut, solve};
 use tern::engine::sample_size::sample_size;
@@ -84,7 +84,7 @@ fn bench_solve(c: &mut Criterion) {
 }
 
 fn bench_search(c: &mut Criterion) {
-    let design = Design::new(&DesignSpec { d: Some(0.3), ..spec(Family::MeanT, Alternative::Greater) }).expect("valid design");
+    let design = Design::new(&spec(Family::MeanT, Alternative::Greater).with("d", 0.3)).expect("valid design");
     let answer = sample_size(&design).expect("search");
     println!(
         "TERN_CHECK\tsearch/mean_t_d0.3\tn={}\tconventional_n={}\tsolves={}",

@@ -10,7 +10,7 @@
 //! per call are (total at REPEATS − total at 0) / REPEATS.
 
 use std::hint::black_box;
-use tern::engine::design::{Design, DesignSpec, Family};
+use tern::engine::design::{Design, Family};
 use tern::engine::dist::{Continuous, NoncentralT};
 use tern::engine::evaluate::solve;
 use tern::engine::sample_size::sample_size;
@@ -41,7 +41,7 @@ fn main() {
         }
     }
     if item == "search/mean_t_d0.3" {
-        let design = Design::new(&DesignSpec { d: Some(0.3), ..spec(Family::MeanT, Alternative::Greater) }).expect("valid design");
+        let design = Design::new(&spec(Family::MeanT, Alternative::Greater).with("d", 0.3)).expect("valid design");
         for _ in 0..repeats {
             black_box(sample_size(black_box(&design)).expect("search"));
         }

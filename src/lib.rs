@@ -6,6 +6,10 @@
 
 pub mod engine;
 
+/// The page model: form reading, messages, data-file roles (and the charts):
+/// natively compiled and tested, no web types.
+pub mod page;
+
 /// The page: DOM, events and canvas charts over the engine. Compiled only
 /// for WebAssembly, so a native build never sees a web type.
 #[cfg(target_arch = "wasm32")]

@@ -39,32 +39,26 @@ fn case(name: &'static str, input: Input, expect: &'static [&'static str]) -> Ca
 }
 
 fn base(family: Family) -> DesignSpec {
-    let mut s = DesignSpec {
-        family: Some(family),
-        alternative: Some(Alternative::Greater),
-        alpha_max: Some(0.05),
-        beta_max: Some(0.2),
-        ..Default::default()
-    };
+    let mut s = DesignSpec::new(family, Alternative::Greater).with("alpha_max", 0.05).with("beta_max", 0.2);
     match family {
         Family::MeanZ | Family::MeanT | Family::PairedT | Family::TwoMeansPooled => {
-            s.theta0 = Some(0.0);
-            s.theta1 = Some(0.5);
-            s.sigma = Some(1.0);
+            s.set("theta0", 0.0);
+            s.set("theta1", 0.5);
+            s.set("sigma", 1.0);
         }
         Family::TwoMeansWelch => {
-            s.theta0 = Some(0.0);
-            s.theta1 = Some(0.5);
-            s.sigma1 = Some(1.0);
-            s.sigma2 = Some(2.0);
+            s.set("theta0", 0.0);
+            s.set("theta1", 0.5);
+            s.set("sigma1", 1.0);
+            s.set("sigma2", 2.0);
         }
         Family::ProportionExact | Family::ProportionNormal => {
-            s.theta0 = Some(0.5);
-            s.theta1 = Some(0.7);
+            s.set("theta0", 0.5);
+            s.set("theta1", 0.7);
         }
         Family::TwoProportions => {
-            s.p1 = Some(0.6);
-            s.p2 = Some(0.4);
+            s.set("p1", 0.6);
+            s.set("p2", 0.4);
         }
     }
     s
@@ -88,67 +82,67 @@ fn table() -> Vec<Case> {
     let raw_z = base(MeanZ);
     vec![
         // --- Non-finite numbers: only reachable through a DesignSpec (JSON has no NaN).
-        case("theta1 NaN", Input::Spec(with(MeanT, |s| s.theta1 = Some(nan))), &["theta1 is NaN", "finite"]),
-        case("theta0 +inf", Input::Spec(with(MeanZ, |s| s.theta0 = Some(inf))), &["theta0 is inf", "finite"]),
-        case("theta1 -inf", Input::Spec(with(TwoMeansPooled, |s| s.theta1 = Some(-inf))), &["theta1 is -inf", "finite"]),
-        case("sigma NaN", Input::Spec(with(MeanT, |s| s.sigma = Some(nan))), &["sigma is NaN", "> 0"]),
-        case("sigma +inf", Input::Spec(with(PairedT, |s| s.sigma = Some(inf))), &["sigma is inf", "finite"]),
-        case("d NaN", Input::Spec(DesignSpec { theta0: None, theta1: None, sigma: None, d: Some(nan), ..base(MeanT) }), &["d is NaN", "finite"]),
-        case("d -inf", Input::Spec(DesignSpec { theta0: None, theta1: None, sigma: None, d: Some(-inf), ..base(MeanT) }), &["d is -inf", "finite"]),
-        case("alpha_max NaN", Input::Spec(with(MeanT, |s| s.alpha_max = Some(nan))), &["alpha_max is NaN", "between 0 and 0.5"]),
-        case("beta_max +inf", Input::Spec(with(MeanT, |s| s.beta_max = Some(inf))), &["beta_max is inf", "between 0 and 0.5"]),
-        case("weight NaN", Input::Spec(with(MeanT, |s| s.weight = Some(nan))), &["weight is NaN", "between 0 and 1"]),
-        case("p2 NaN", Input::Spec(with(TwoProportions, |s| s.p2 = Some(nan))), &["p2 is NaN", "between 0 and 1"]),
-        case("proportion theta0 -inf", Input::Spec(with(ProportionExact, |s| s.theta0 = Some(-inf))), &["theta0 is -inf", "between 0 and 1"]),
-        case("ratio NaN", Input::Spec(with(TwoMeansWelch, |s| s.ratio = Some(nan))), &["ratio is NaN", "between 0 and 100"]),
-        case("ratio +inf", Input::Spec(with(TwoProportions, |s| s.ratio = Some(inf))), &["ratio is inf", "between 0 and 100"]),
+        case("theta1 NaN", Input::Spec(with(MeanT, |s| s.set("theta1", nan))), &["theta1 is NaN", "finite"]),
+        case("theta0 +inf", Input::Spec(with(MeanZ, |s| s.set("theta0", inf))), &["theta0 is inf", "finite"]),
+        case("theta1 -inf", Input::Spec(with(TwoMeansPooled, |s| s.set("theta1", -inf))), &["theta1 is -inf", "finite"]),
+        case("sigma NaN", Input::Spec(with(MeanT, |s| s.set("sigma", nan))), &["sigma is NaN", "> 0"]),
+        case("sigma +inf", Input::Spec(with(PairedT, |s| s.set("sigma", inf))), &["sigma is inf", "finite"]),
+        case("d NaN", Input::Spec(base(MeanT).without(&["theta0", "theta1", "sigma"]).with("d", nan)), &["d is NaN", "finite"]),
+        case("d -inf", Input::Spec(base(MeanT).without(&["theta0", "theta1", "sigma"]).with("d", -inf)), &["d is -inf", "finite"]),
+        case("alpha_max NaN", Input::Spec(with(MeanT, |s| s.set("alpha_max", nan))), &["alpha_max is NaN", "between 0 and 0.5"]),
+        case("beta_max +inf", Input::Spec(with(MeanT, |s| s.set("beta_max", inf))), &["beta_max is inf", "between 0 and 0.5"]),
+        case("weight NaN", Input::Spec(with(MeanT, |s| s.set("weight", nan))), &["weight is NaN", "between 0 and 1"]),
+        case("p2 NaN", Input::Spec(with(TwoProportions, |s| s.set("p2", nan))), &["p2 is NaN", "between 0 and 1"]),
+        case("proportion theta0 -inf", Input::Spec(with(ProportionExact, |s| s.set("theta0", -inf))), &["theta0 is -inf", "between 0 and 1"]),
+        case("ratio NaN", Input::Spec(with(TwoMeansWelch, |s| s.set("ratio", nan))), &["ratio is NaN", "between 0 and 100"]),
+        case("ratio +inf", Input::Spec(with(TwoProportions, |s| s.set("ratio", inf))), &["ratio is inf", "between 0 and 100"]),
         // --- Spreads must be positive.
-        case("sigma negative", Input::Spec(with(MeanT, |s| s.sigma = Some(-1.0))), &["sigma is -1", "> 0"]),
-        case("sigma zero", Input::Spec(with(MeanZ, |s| s.sigma = Some(0.0))), &["sigma is 0", "> 0"]),
-        case("welch sigma1 negative", Input::Spec(with(TwoMeansWelch, |s| s.sigma1 = Some(-2.0))), &["sigma1 is -2", "> 0"]),
-        case("welch sigma2 zero", Input::Spec(with(TwoMeansWelch, |s| s.sigma2 = Some(0.0))), &["sigma2 is 0", "> 0"]),
+        case("sigma negative", Input::Spec(with(MeanT, |s| s.set("sigma", -1.0))), &["sigma is -1", "> 0"]),
+        case("sigma zero", Input::Spec(with(MeanZ, |s| s.set("sigma", 0.0))), &["sigma is 0", "> 0"]),
+        case("welch sigma1 negative", Input::Spec(with(TwoMeansWelch, |s| s.set("sigma1", -2.0))), &["sigma1 is -2", "> 0"]),
+        case("welch sigma2 zero", Input::Spec(with(TwoMeansWelch, |s| s.set("sigma2", 0.0))), &["sigma2 is 0", "> 0"]),
         // --- The alternative must differ from H0, on the stated side.
-        case("theta1 = theta0, greater", Input::Spec(with(MeanT, |s| s.theta1 = Some(0.0))), &["theta1 is 0", "greater than theta0"]),
+        case("theta1 = theta0, greater", Input::Spec(with(MeanT, |s| s.set("theta1", 0.0))), &["theta1 is 0", "greater than theta0"]),
         case(
             "theta1 = theta0, two-sided",
             Input::Spec(with(MeanZ, |s| {
-                s.theta0 = Some(1.0);
-                s.theta1 = Some(1.0);
+                s.set("theta0", 1.0);
+                s.set("theta1", 1.0);
                 s.alternative = Some(Alternative::TwoSided);
             })),
             &["theta1 is 1", "\"two_sided\"", "different from theta0"],
         ),
-        case("d = 0", Input::Spec(DesignSpec { theta0: None, theta1: None, sigma: None, d: Some(0.0), ..base(MeanT) }), &["d is 0", "greater than 0"]),
-        case("greater with theta1 < theta0", Input::Spec(with(MeanT, |s| s.theta1 = Some(-0.5))), &["theta1 is -0.5", "\"greater\"", "greater than theta0"]),
+        case("d = 0", Input::Spec(base(MeanT).without(&["theta0", "theta1", "sigma"]).with("d", 0.0)), &["d is 0", "greater than 0"]),
+        case("greater with theta1 < theta0", Input::Spec(with(MeanT, |s| s.set("theta1", -0.5))), &["theta1 is -0.5", "\"greater\"", "greater than theta0"]),
         case(
             "less with theta1 > theta0",
             Input::Spec(with(TwoMeansPooled, |s| s.alternative = Some(Alternative::Less))),
             &["theta1 is 0.5", "\"less\"", "less than theta0"],
         ),
-        case("proportion greater with p1 < p0", Input::Spec(with(ProportionNormal, |s| s.theta1 = Some(0.3))), &["theta1 is 0.3", "greater than theta0"]),
+        case("proportion greater with p1 < p0", Input::Spec(with(ProportionNormal, |s| s.set("theta1", 0.3))), &["theta1 is 0.3", "greater than theta0"]),
         // The message must echo the p1 the analyst typed, not p2 + (p1 − p2)
         // recomputed in floating point (0.05 came back as 0.04999999999999999).
         case(
             "two proportions greater with p1 < p2",
             Input::Spec(with(TwoProportions, |s| {
-                s.p1 = Some(0.3);
-                s.p2 = Some(0.4);
+                s.set("p1", 0.3);
+                s.set("p2", 0.4);
             })),
             &["p1 is 0.3,", "greater than p2"],
         ),
         case(
             "two proportions greater with p1 < p2 (inexact difference)",
             Input::Spec(with(TwoProportions, |s| {
-                s.p1 = Some(0.05);
-                s.p2 = Some(0.2);
+                s.set("p1", 0.05);
+                s.set("p2", 0.2);
             })),
             &["p1 is 0.05,", "greater than p2"],
         ),
         case(
             "two proportions equal, two-sided",
             Input::Spec(with(TwoProportions, |s| {
-                s.p1 = Some(0.4);
-                s.p2 = Some(0.4);
+                s.set("p1", 0.4);
+                s.set("p2", 0.4);
                 s.alternative = Some(Alternative::TwoSided);
             })),
             &["p1 is 0.4", "different from p2"],
@@ -156,63 +150,63 @@ fn table() -> Vec<Case> {
         // --- The analyst's limits: 0 < limit < 0.5, never defaulted.
         Case {
             name: "alpha_max = 0.5",
-            input: Input::Spec(with(MeanT, |s| s.alpha_max = Some(0.5))),
+            input: Input::Spec(with(MeanT, |s| s.set("alpha_max", 0.5))),
             expect: &["alpha_max is 0.5"],
             exact: Some("alpha_max is 0.5, but must be between 0 and 0.5 (exclusive)"),
         },
-        case("alpha_max above 0.5", Input::Spec(with(MeanZ, |s| s.alpha_max = Some(0.9))), &["alpha_max is 0.9", "between 0 and 0.5"]),
-        case("alpha_max = 0", Input::Spec(with(MeanZ, |s| s.alpha_max = Some(0.0))), &["alpha_max is 0,", "between 0 and 0.5"]),
-        case("alpha_max negative", Input::Spec(with(ProportionExact, |s| s.alpha_max = Some(-0.05))), &["alpha_max is -0.05", "between 0 and 0.5"]),
+        case("alpha_max above 0.5", Input::Spec(with(MeanZ, |s| s.set("alpha_max", 0.9))), &["alpha_max is 0.9", "between 0 and 0.5"]),
+        case("alpha_max = 0", Input::Spec(with(MeanZ, |s| s.set("alpha_max", 0.0))), &["alpha_max is 0,", "between 0 and 0.5"]),
+        case("alpha_max negative", Input::Spec(with(ProportionExact, |s| s.set("alpha_max", -0.05))), &["alpha_max is -0.05", "between 0 and 0.5"]),
         Case {
             name: "beta_max = 0.7",
-            input: Input::Spec(with(MeanT, |s| s.beta_max = Some(0.7))),
+            input: Input::Spec(with(MeanT, |s| s.set("beta_max", 0.7))),
             expect: &["beta_max is 0.7"],
             exact: Some("beta_max is 0.7, but must be between 0 and 0.5 (exclusive)"),
         },
         case(
             "alpha_max missing",
-            Input::Spec(with(MeanT, |s| s.alpha_max = None)),
+            Input::Spec(with(MeanT, |s| s.unset("alpha_max"))),
             &["alpha_max is missing", "choose the largest type I error rate", "between 0 and 0.5"],
         ),
         case(
             "beta_max missing",
-            Input::Spec(with(TwoProportions, |s| s.beta_max = None)),
+            Input::Spec(with(TwoProportions, |s| s.unset("beta_max"))),
             &["beta_max is missing", "choose the largest type II error rate", "between 0 and 0.5"],
         ),
         case("family missing", Input::Spec(DesignSpec { family: None, ..base(MeanT) }), &["family is missing", "mean_t"]),
         case("alternative missing", Input::Spec(DesignSpec { alternative: None, ..base(MeanT) }), &["alternative is missing", "two_sided"]),
-        case("theta1 missing", Input::Spec(with(MeanT, |s| s.theta1 = None)), &["theta1 is missing", "smallest effect"]),
-        case("sigma missing", Input::Spec(with(MeanZ, |s| s.sigma = None)), &["sigma is missing", "standard deviation"]),
-        case("p2 missing", Input::Spec(with(TwoProportions, |s| s.p2 = None)), &["p2 is missing"]),
+        case("theta1 missing", Input::Spec(with(MeanT, |s| s.unset("theta1"))), &["theta1 is missing", "smallest effect"]),
+        case("sigma missing", Input::Spec(with(MeanZ, |s| s.unset("sigma"))), &["sigma is missing", "standard deviation"]),
+        case("p2 missing", Input::Spec(with(TwoProportions, |s| s.unset("p2"))), &["p2 is missing"]),
         // --- Weight: an open interval, 0 and 1 excluded.
-        case("weight 0", Input::Spec(with(MeanT, |s| s.weight = Some(0.0))), &["weight is 0", "between 0 and 1"]),
-        case("weight 1", Input::Spec(with(MeanT, |s| s.weight = Some(1.0))), &["weight is 1", "between 0 and 1"]),
+        case("weight 0", Input::Spec(with(MeanT, |s| s.set("weight", 0.0))), &["weight is 0", "between 0 and 1"]),
+        case("weight 1", Input::Spec(with(MeanT, |s| s.set("weight", 1.0))), &["weight is 1", "between 0 and 1"]),
         // --- Proportions strictly inside (0, 1).
-        case("p0 = 0", Input::Spec(with(ProportionExact, |s| s.theta0 = Some(0.0))), &["theta0 is 0", "between 0 and 1"]),
-        case("p0 = 1", Input::Spec(with(ProportionNormal, |s| s.theta0 = Some(1.0))), &["theta0 is 1", "between 0 and 1"]),
-        case("p1 above 1", Input::Spec(with(ProportionExact, |s| s.theta1 = Some(1.2))), &["theta1 is 1.2", "between 0 and 1"]),
-        case("two proportions p1 negative", Input::Spec(with(TwoProportions, |s| s.p1 = Some(-0.1))), &["p1 is -0.1", "between 0 and 1"]),
+        case("p0 = 0", Input::Spec(with(ProportionExact, |s| s.set("theta0", 0.0))), &["theta0 is 0", "between 0 and 1"]),
+        case("p0 = 1", Input::Spec(with(ProportionNormal, |s| s.set("theta0", 1.0))), &["theta0 is 1", "between 0 and 1"]),
+        case("p1 above 1", Input::Spec(with(ProportionExact, |s| s.set("theta1", 1.2))), &["theta1 is 1.2", "between 0 and 1"]),
+        case("two proportions p1 negative", Input::Spec(with(TwoProportions, |s| s.set("p1", -0.1))), &["p1 is -0.1", "between 0 and 1"]),
         // --- Allocation ratio.
-        case("ratio 0", Input::Spec(with(TwoMeansPooled, |s| s.ratio = Some(0.0))), &["ratio is 0", "between 0 and 100"]),
-        case("ratio negative", Input::Spec(with(TwoMeansWelch, |s| s.ratio = Some(-1.0))), &["ratio is -1", "between 0 and 100"]),
-        case("ratio above 100", Input::Spec(with(TwoProportions, |s| s.ratio = Some(101.0))), &["ratio is 101", "between 0 and 100"]),
+        case("ratio 0", Input::Spec(with(TwoMeansPooled, |s| s.set("ratio", 0.0))), &["ratio is 0", "between 0 and 100"]),
+        case("ratio negative", Input::Spec(with(TwoMeansWelch, |s| s.set("ratio", -1.0))), &["ratio is -1", "between 0 and 100"]),
+        case("ratio above 100", Input::Spec(with(TwoProportions, |s| s.set("ratio", 101.0))), &["ratio is 101", "between 0 and 100"]),
         // A field that does not apply is wrong whatever its value, so these
         // messages name the field and the family (the rule), not the value.
-        case("ratio for a one-group family", Input::Spec(with(MeanT, |s| s.ratio = Some(2.0))), &["ratio does not apply", "mean_t", "n2/n1"]),
-        case("sigma for welch", Input::Spec(with(TwoMeansWelch, |s| s.sigma = Some(1.0))), &["sigma does not apply", "two_means_welch"]),
-        case("d for welch", Input::Spec(with(TwoMeansWelch, |s| s.d = Some(0.5))), &["d does not apply", "two_means_welch"]),
-        case("d for a proportion", Input::Spec(with(ProportionExact, |s| s.d = Some(0.5))), &["d does not apply", "proportion_exact"]),
-        case("theta0 for two proportions", Input::Spec(with(TwoProportions, |s| s.theta0 = Some(0.0))), &["theta0 does not apply", "two_proportions"]),
-        case("sigma1 for pooled", Input::Spec(with(TwoMeansPooled, |s| s.sigma1 = Some(1.0))), &["sigma1 does not apply", "two_means_pooled"]),
-        case("d together with theta1", Input::Spec(with(MeanT, |s| s.d = Some(0.5))), &["either d or theta1", "not both"]),
+        case("ratio for a one-group family", Input::Spec(with(MeanT, |s| s.set("ratio", 2.0))), &["ratio does not apply", "mean_t", "n2/n1"]),
+        case("sigma for welch", Input::Spec(with(TwoMeansWelch, |s| s.set("sigma", 1.0))), &["sigma does not apply", "two_means_welch"]),
+        case("d for welch", Input::Spec(with(TwoMeansWelch, |s| s.set("d", 0.5))), &["d does not apply", "two_means_welch"]),
+        case("d for a proportion", Input::Spec(with(ProportionExact, |s| s.set("d", 0.5))), &["d does not apply", "proportion_exact"]),
+        case("theta0 for two proportions", Input::Spec(with(TwoProportions, |s| s.set("theta0", 0.0))), &["theta0 does not apply", "two_proportions"]),
+        case("sigma1 for pooled", Input::Spec(with(TwoMeansPooled, |s| s.set("sigma1", 1.0))), &["sigma1 does not apply", "two_means_pooled"]),
+        case("d together with theta1", Input::Spec(with(MeanT, |s| s.set("d", 0.5))), &["either d or theta1", "not both"]),
         // --- Sample sizes outside the family's range (n = 1 for t: df = 0).
         case("t test at n = 1 (df 0)", Input::AtN(base(MeanT), 1), &["n is 1", "from 2"]),
         case("paired t at n = 1 (df 0)", Input::AtN(base(PairedT), 1), &["n is 1", "from 2"]),
         case("z test at n = 0", Input::AtN(base(MeanZ), 0), &["n is 0", "from 1"]),
         case("n = 1e12", Input::AtN(base(ProportionExact), 1_000_000_000_000), &["n is 1000000000000", "10000000"]),
         case("pooled n1 = 1", Input::AtN(base(TwoMeansPooled), 1), &["n1 is 1", "from 2"]),
-        case("pooled n2 = 1 from a small ratio", Input::AtN(with(TwoMeansPooled, |s| s.ratio = Some(0.01)), 2), &["n2 is 1", "from 2"]),
-        case("welch n2 above the maximum", Input::AtN(with(TwoMeansWelch, |s| s.ratio = Some(2.0)), 10_000_000), &["n2 is 20000000", "10000000"]),
+        case("pooled n2 = 1 from a small ratio", Input::AtN(with(TwoMeansPooled, |s| s.set("ratio", 0.01)), 2), &["n2 is 1", "from 2"]),
+        case("welch n2 above the maximum", Input::AtN(with(TwoMeansWelch, |s| s.set("ratio", 2.0)), 10_000_000), &["n2 is 20000000", "10000000"]),
         // --- Summary data.
         case("data n NaN", Input::Decide(base(MeanT), one(nan, 1.0, Some(1.0))), &["data.n is NaN", "whole number"]),
         case("data n 1 for t (df 0)", Input::Decide(base(MeanT), one(1.0, 1.0, Some(1.0))), &["data.n is 1", "from 2"]),
@@ -235,7 +229,7 @@ fn table() -> Vec<Case> {
         case("two proportions, pooled rate 0", Input::Decide(base(TwoProportions), props(0.0, 10.0, 0.0, 10.0)), &["pooled standard error is 0", "undefined"]),
         // A z decision from a standardised design (d) is accepted: the data are then read in units of σ (DEVELOPERS.md).
         // The reference suite checks such decisions against SciPy.
-        // (It used to be refused; see tests/reference/families.json, mean_z.*.decision.)
+        // (It used to be refused)); see tests/reference/families.json, mean_z.*.decision.)
         // --- The JSON contract.
         Case {
             name: "json beta_max 0.7",
@@ -351,7 +345,7 @@ fn every_bad_input_is_refused_with_a_message() {
 /// through JSON: the JSON layer adds no wording of its own to design errors.
 #[test]
 fn json_and_spec_agree_on_design_messages() {
-    let spec = with(MeanT, |s| s.sigma = Some(-1.0));
+    let spec = with(MeanT, |s| s.set("sigma", -1.0));
     let a = Design::new(&spec).unwrap_err().to_string();
     let b = run(r#"{"family": "mean_t", "alternative": "greater", "theta0": 0, "theta1": 0.5, "sigma": -1, "alpha_max": 0.05, "beta_max": 0.2}"#)
         .unwrap_err()

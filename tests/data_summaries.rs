@@ -30,18 +30,11 @@ fn two_groups_file_decides_like_its_summary_figures() {
     let Summary::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 } = ds.summary else { panic!("{:?}", ds.summary) };
     assert_eq!((n1, n2), (23.0, 31.0));
     for family in [Family::TwoMeansPooled, Family::TwoMeansWelch] {
-        let d = design(DesignSpec {
-            family: Some(family),
-            alternative: Some(Alternative::Greater),
-            theta0: Some(0.0),
-            theta1: Some(5.0),
-            sigma: (family == Family::TwoMeansPooled).then_some(7.0),
-            sigma1: (family == Family::TwoMeansWelch).then_some(4.0),
-            sigma2: (family == Family::TwoMeansWelch).then_some(9.0),
-            alpha_max: Some(0.1),
-            beta_max: Some(0.2),
-            ..Default::default()
-        });
+        let mut spec = DesignSpec::new(family, Alternative::Greater).with("theta0", 0.0).with("theta1", 5.0).with("alpha_max", 0.1).with("beta_max", 0.2);
+        spec.put("sigma", (family == Family::TwoMeansPooled).then_some(7.0));
+        spec.put("sigma1", (family == Family::TwoMeansWelch).then_some(4.0));
+        spec.put("sigma2", (family == Family::TwoMeansWelch).then_some(9.0));
+        let d = design(spec);
         let from_file = decide(&d, &ds.summary).unwrap();
         let from_figures = decide(&d, &Summary::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 }).unwrap();
         assert_eq!(from_file, from_figures);
@@ -100,14 +93,7 @@ fn sd_zero_is_noted_and_the_decision_says_why_it_cannot_proceed() {
     assert_eq!(ds.groups[0].sd, Some(0.0));
     assert_eq!(ds.groups[0].skewness, None);
     assert!(ds.notes.iter().any(|n| n.contains("standard deviation is 0")), "{:?}", ds.notes);
-    let d = design(DesignSpec {
-        family: Some(Family::TwoMeansPooled),
-        alternative: Some(Alternative::Greater),
-        d: Some(0.5),
-        alpha_max: Some(0.1),
-        beta_max: Some(0.2),
-        ..Default::default()
-    });
+    let d = design(DesignSpec::new(Family::TwoMeansPooled, Alternative::Greater).with("d", 0.5).with("alpha_max", 0.1).with("beta_max", 0.2));
     let e = decide(&d, &ds.summary).unwrap_err().to_string();
     assert!(e.contains("sd = 0"), "{e}");
 }

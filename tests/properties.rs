@@ -49,38 +49,31 @@ struct Params {
 /// θ1 < θ0). `mirror` maps every proportion p to 1 − p (the mirror image of
 /// a proportion design); for the other families the mirror is the sign.
 fn spec(p: &Params, alternative: Alternative, sign: f64, mirror: bool) -> DesignSpec {
-    let mut s = DesignSpec {
-        family: Some(p.family),
-        alternative: Some(alternative),
-        alpha_max: Some(p.alpha_max),
-        beta_max: Some(p.beta_max),
-        weight: Some(p.weight),
-        ..Default::default()
-    };
+    let mut s = DesignSpec::new(p.family, alternative).with("alpha_max", p.alpha_max).with("beta_max", p.beta_max).with("weight", p.weight);
     if p.family.two_groups() {
-        s.ratio = Some(p.ratio);
+        s.set("ratio", p.ratio);
     }
     let flip = |x: f64| if mirror { 1.0 - x } else { x };
     match p.family {
         Family::MeanZ | Family::MeanT | Family::PairedT | Family::TwoMeansPooled => {
-            s.theta0 = Some(p.theta0);
-            s.theta1 = Some(p.theta0 + sign * p.d * p.sigma);
-            s.sigma = Some(p.sigma);
+            s.set("theta0", p.theta0);
+            s.set("theta1", p.theta0 + sign * p.d * p.sigma);
+            s.set("sigma", p.sigma);
         }
         Family::TwoMeansWelch => {
             let se = ((p.sigma * p.sigma + p.sigma2 * p.sigma2) / 2.0).sqrt();
-            s.theta0 = Some(p.theta0);
-            s.theta1 = Some(p.theta0 + sign * p.d * se);
-            s.sigma1 = Some(p.sigma);
-            s.sigma2 = Some(p.sigma2);
+            s.set("theta0", p.theta0);
+            s.set("theta1", p.theta0 + sign * p.d * se);
+            s.set("sigma1", p.sigma);
+            s.set("sigma2", p.sigma2);
         }
         Family::ProportionExact | Family::ProportionNormal => {
-            s.theta0 = Some(flip(p.p0));
-            s.theta1 = Some(flip(p.p0 + sign * p.dp));
+            s.set("theta0", flip(p.p0));
+            s.set("theta1", flip(p.p0 + sign * p.dp));
         }
         Family::TwoProportions => {
-            s.p2 = Some(flip(p.p0));
-            s.p1 = Some(flip(p.p0 + sign * p.dp));
+            s.set("p2", flip(p.p0));
+            s.set("p1", flip(p.p0 + sign * p.dp));
         }
     }
     s

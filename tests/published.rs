@@ -19,14 +19,7 @@ fn design(spec: DesignSpec) -> Design {
 #[test]
 fn cohen_two_sample_table() {
     for (d, n) in [(0.2, 393u64), (0.5, 64), (0.8, 26)] {
-        let s = sample_size(&design(DesignSpec {
-            family: Some(Family::TwoMeansPooled),
-            alternative: Some(Alternative::TwoSided),
-            d: Some(d),
-            alpha_max: Some(0.05),
-            beta_max: Some(0.2),
-            ..Default::default()
-        }))
+        let s = sample_size(&design(DesignSpec::new(Family::TwoMeansPooled, Alternative::TwoSided).with("d", d).with("alpha_max", 0.05).with("beta_max", 0.2)))
         .expect("search");
         let got = s.conventional.expect("found").n1;
         assert!(got.abs_diff(n) <= 1, "d = {d}: conventional n {got}, Cohen's table {n}");
@@ -64,15 +57,7 @@ fn nist_chi_square_critical_values() {
 /// first conclusive one when the saw-tooth crosses the limit.
 #[test]
 fn exact_binomial_power_saw_tooth() {
-    let d = design(DesignSpec {
-        family: Some(Family::ProportionExact),
-        alternative: Some(Alternative::Greater),
-        theta0: Some(0.6),
-        theta1: Some(0.8),
-        alpha_max: Some(0.05),
-        beta_max: Some(0.2),
-        ..Default::default()
-    });
+    let d = design(DesignSpec::new(Family::ProportionExact, Alternative::Greater).with("theta0", 0.6).with("theta1", 0.8).with("alpha_max", 0.05).with("beta_max", 0.2));
     let power: Vec<f64> = (10..=60).map(|n| conventional_power(&d, n).expect("power")).collect();
     let drops = power.windows(2).filter(|w| w[1] < w[0]).count();
     assert!(drops >= 5, "expected a saw-tooth, found {drops} drops");
@@ -100,16 +85,7 @@ fn z_test_threshold_is_the_midpoint() {
         (5.0, 4.2, 1.5, 12, Alternative::Less),
         (0.0, 0.3, 1.0, 121, Alternative::Greater),
     ] {
-        let d = design(DesignSpec {
-            family: Some(Family::MeanZ),
-            alternative: Some(alt),
-            theta0: Some(theta0),
-            theta1: Some(theta1),
-            sigma: Some(sigma),
-            alpha_max: Some(0.05),
-            beta_max: Some(0.2),
-            ..Default::default()
-        });
+        let d = design(DesignSpec::new(Family::MeanZ, alt).with("theta0", theta0).with("theta1", theta1).with("sigma", sigma).with("alpha_max", 0.05).with("beta_max", 0.2));
         let e = evaluate(&d, n).expect("evaluate");
         let est = match e.rule {
             Rule::Above { estimate, .. } | Rule::Below { estimate, .. } => estimate,
@@ -127,14 +103,7 @@ fn z_test_threshold_is_the_midpoint() {
 /// conventionally.
 #[test]
 fn z_test_sample_sizes() {
-    let s = sample_size(&design(DesignSpec {
-        family: Some(Family::MeanZ),
-        alternative: Some(Alternative::Greater),
-        d: Some(0.3),
-        alpha_max: Some(0.05),
-        beta_max: Some(0.2),
-        ..Default::default()
-    }))
+    let s = sample_size(&design(DesignSpec::new(Family::MeanZ, Alternative::Greater).with("d", 0.3).with("alpha_max", 0.05).with("beta_max", 0.2)))
     .expect("search");
     assert_eq!(s.youden.map(|g| g.n1), Some(121));
     assert_eq!(s.conventional.map(|g| g.n1), Some(69));

@@ -15,20 +15,14 @@ pub const ALPHA_MAX: f64 = 0.05;
 pub const BETA_MAX: f64 = 0.2;
 
 pub fn spec(family: Family, alternative: Alternative) -> DesignSpec {
-    DesignSpec {
-        family: Some(family),
-        alternative: Some(alternative),
-        alpha_max: Some(ALPHA_MAX),
-        beta_max: Some(BETA_MAX),
-        ..DesignSpec::default()
-    }
+    DesignSpec { family: Some(family), alternative: Some(alternative), ..DesignSpec::default() }.with("alpha_max", ALPHA_MAX).with("beta_max", BETA_MAX)
 }
 
 /// A representative design of each family and the n (per group) it is
 /// solved at. Mirrored in compare_scipy.py (`SOLVES`).
 pub fn solve_cases() -> Vec<(String, Design, u64)> {
     use Alternative::{Greater, TwoSided};
-    let d = |family, alternative, d: f64| DesignSpec { d: Some(d), ..spec(family, alternative) };
+    let d = |family, alternative, d: f64| spec(family, alternative).with("d", d);
     let cases: Vec<(&str, DesignSpec, u64)> = vec![
         ("solve/mean_z", d(Family::MeanZ, Greater, 0.3), 121),
         ("solve/mean_t", d(Family::MeanT, Greater, 0.3), 120),
@@ -36,28 +30,22 @@ pub fn solve_cases() -> Vec<(String, Design, u64)> {
         ("solve/two_means_pooled", d(Family::TwoMeansPooled, Greater, 0.5), 100),
         (
             "solve/two_means_welch",
-            DesignSpec {
-                theta0: Some(0.0),
-                theta1: Some(0.5),
-                sigma1: Some(1.0),
-                sigma2: Some(1.5),
-                ..spec(Family::TwoMeansWelch, Greater)
-            },
+            spec(Family::TwoMeansWelch, Greater).with("theta0", 0.0).with("theta1", 0.5).with("sigma1", 1.0).with("sigma2", 1.5),
             100,
         ),
         (
             "solve/proportion_exact",
-            DesignSpec { theta0: Some(0.5), theta1: Some(0.6), ..spec(Family::ProportionExact, Greater) },
+            spec(Family::ProportionExact, Greater).with("theta0", 0.5).with("theta1", 0.6),
             200,
         ),
         (
             "solve/proportion_normal",
-            DesignSpec { theta0: Some(0.5), theta1: Some(0.6), ..spec(Family::ProportionNormal, Greater) },
+            spec(Family::ProportionNormal, Greater).with("theta0", 0.5).with("theta1", 0.6),
             200,
         ),
         (
             "solve/two_proportions",
-            DesignSpec { p1: Some(0.6), p2: Some(0.5), ..spec(Family::TwoProportions, Greater) },
+            spec(Family::TwoProportions, Greater).with("p1", 0.6).with("p2", 0.5),
             400,
         ),
         ("solve_two_sided/mean_t", d(Family::MeanT, TwoSided, 0.3), 120),

@@ -7,6 +7,7 @@
 //! observed statistic lies in the rejection region of c*.
 
 use super::design::{Design, Effect, Family};
+use super::family::Shape;
 use super::dist::{Continuous, Discrete};
 use super::evaluate::{Cut, EvaluateError, Evaluation, evaluate_observed, sig3};
 use super::model::{Observed, Sampling};
@@ -30,6 +31,51 @@ pub enum Summary {
     TwoGroups { n1: f64, mean1: f64, sd1: f64, n2: f64, mean2: f64, sd2: f64 },
     Proportion { successes: f64, trials: f64 },
     TwoProportions { successes1: f64, trials1: f64, successes2: f64, trials2: f64 },
+}
+
+impl Summary {
+    /// Build the summary a family decides from out of its registry fields,
+    /// given by name (without `data.`): a required field that is absent is
+    /// `Missing`, named with its `data.` prefix.
+    pub fn from_fields(family: Family, values: &[(&str, f64)]) -> Result<Summary, DecisionError> {
+        let entry = family.entry();
+        let get = |key: &str| values.iter().find(|(k, _)| *k == key).map(|(_, v)| *v);
+        for f in entry.data.iter().filter(|f| f.required) {
+            if get(f.key).is_none() {
+                return Err(DecisionError::Missing { field: f.input, hint: f.hint });
+            }
+        }
+        let v = |key: &str| get(key).unwrap_or(f64::NAN);
+        Ok(match entry.shape {
+            Shape::One | Shape::Paired => Summary::OneGroup { n: v("n"), mean: v("mean"), sd: get("sd") },
+            Shape::TwoGroups => {
+                Summary::TwoGroups { n1: v("n1"), mean1: v("mean1"), sd1: v("sd1"), n2: v("n2"), mean2: v("mean2"), sd2: v("sd2") }
+            }
+            Shape::Binary => Summary::Proportion { successes: v("successes"), trials: v("trials") },
+            Shape::TwoGroupsBinary => {
+                Summary::TwoProportions { successes1: v("successes1"), trials1: v("trials1"), successes2: v("successes2"), trials2: v("trials2") }
+            }
+        })
+    }
+
+    /// The figures by field name (without `data.`), as the JSON contract
+    /// and the page's fields name them.
+    pub fn fields(&self) -> Vec<(&'static str, f64)> {
+        match *self {
+            Summary::OneGroup { n, mean, sd } => {
+                let mut v = vec![("n", n), ("mean", mean)];
+                v.extend(sd.map(|s| ("sd", s)));
+                v
+            }
+            Summary::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 } => {
+                vec![("n1", n1), ("mean1", mean1), ("sd1", sd1), ("n2", n2), ("mean2", mean2), ("sd2", sd2)]
+            }
+            Summary::Proportion { successes, trials } => vec![("successes", successes), ("trials", trials)],
+            Summary::TwoProportions { successes1, trials1, successes2, trials2 } => {
+                vec![("successes1", successes1), ("trials1", trials1), ("successes2", successes2), ("trials2", trials2)]
+            }
+        }
+    }
 }
 
 /// The three outcomes.
@@ -70,7 +116,7 @@ pub enum DecisionError {
     #[error("{field} is missing: {hint}")]
     Missing { field: &'static str, hint: &'static str },
     #[error("the data give {given}, but the family {family} needs {needs}")]
-    WrongKind { given: &'static str, family: &'static str, needs: &'static str },
+    WrongKind { given: &'static str, family: &'static str, needs: String },
     #[error("{0}")]
     Undefined(&'static str),
     #[error(transparent)]
@@ -107,21 +153,11 @@ fn kind(s: &Summary) -> &'static str {
     }
 }
 
-fn needs(f: Family) -> &'static str {
-    match f {
-        Family::MeanZ | Family::MeanT => "one group: n, mean (and sd for the t test)",
-        Family::PairedT => "the differences: n, mean, sd",
-        Family::TwoMeansPooled | Family::TwoMeansWelch => "two groups: n1, mean1, sd1, n2, mean2, sd2",
-        Family::ProportionExact | Family::ProportionNormal => "successes and trials",
-        Family::TwoProportions => "successes1, trials1, successes2, trials2",
-    }
-}
-
 /// Decide from summary data.
 pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError> {
     let (theta0, _) = design.effect.thetas();
     let family = design.family;
-    let wrong = || DecisionError::WrongKind { given: kind(data), family: family.id(), needs: needs(family) };
+    let wrong = || DecisionError::WrongKind { given: kind(data), family: family.id(), needs: family.entry().data_keys() };
     // Statistic, estimate, group sizes and observed spreads.
     let (t, estimate, n1, n2, obs) = match (family, *data) {
         (Family::MeanZ, Summary::OneGroup { n, mean, .. }) => {

@@ -5,92 +5,31 @@
 //! checked in [`Design::new`], which names the field, its value and the rule
 //! in its error, so nothing downstream needs to re-check user input.
 
+use super::family::{Field, LIMITS, REGISTRY, STANDARDISED};
 use super::threshold::Alternative;
 use serde::Serialize;
 
 /// Largest sample size (per group) any search or evaluation accepts.
 pub const N_MAX: u64 = 10_000_000;
 
-/// The test families (DEVELOPERS.md, "Families").
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "snake_case")]
-pub enum Family {
-    /// One mean, σ known: z statistic.
-    MeanZ,
-    /// One mean, σ unknown: one-sample t.
-    MeanT,
-    /// Paired means: one-sample t on the differences.
-    PairedT,
-    /// Two means, equal variances: pooled t.
-    TwoMeansPooled,
-    /// Two means, unequal variances: Welch t.
-    TwoMeansWelch,
-    /// One proportion, exact binomial.
-    ProportionExact,
-    /// One proportion, normal approximation.
-    ProportionNormal,
-    /// Two proportions, normal approximation with pooled SE under H0.
-    TwoProportions,
-}
+pub use super::family::Family;
 
-impl Family {
-    pub const ALL: [Family; 8] = [
-        Family::MeanZ,
-        Family::MeanT,
-        Family::PairedT,
-        Family::TwoMeansPooled,
-        Family::TwoMeansWelch,
-        Family::ProportionExact,
-        Family::ProportionNormal,
-        Family::TwoProportions,
-    ];
+// The direction's names live beside the design that states it (the type
+// belongs to the threshold solver, which knows no JSON).
+impl Alternative {
+    pub const ALL: [Alternative; 3] = [Alternative::Greater, Alternative::Less, Alternative::TwoSided];
 
-    /// The identifier used in JSON input and output.
+    /// The name in JSON input and output.
     pub fn id(self) -> &'static str {
         match self {
-            Family::MeanZ => "mean_z",
-            Family::MeanT => "mean_t",
-            Family::PairedT => "paired_t",
-            Family::TwoMeansPooled => "two_means_pooled",
-            Family::TwoMeansWelch => "two_means_welch",
-            Family::ProportionExact => "proportion_exact",
-            Family::ProportionNormal => "proportion_normal",
-            Family::TwoProportions => "two_proportions",
+            Alternative::Greater => "greater",
+            Alternative::Less => "less",
+            Alternative::TwoSided => "two_sided",
         }
     }
 
-    pub fn from_id(id: &str) -> Option<Family> {
-        Family::ALL.into_iter().find(|f| f.id() == id)
-    }
-
-    /// A plain description for messages and reports.
-    pub fn title(self) -> &'static str {
-        match self {
-            Family::MeanZ => "one mean, known standard deviation (z test)",
-            Family::MeanT => "one mean, unknown standard deviation (t test)",
-            Family::PairedT => "paired means (t test on the differences)",
-            Family::TwoMeansPooled => "two means, equal variances (pooled t test)",
-            Family::TwoMeansWelch => "two means, unequal variances (Welch t test)",
-            Family::ProportionExact => "one proportion, exact binomial test",
-            Family::ProportionNormal => "one proportion, normal approximation",
-            Family::TwoProportions => "two proportions, normal approximation",
-        }
-    }
-
-    pub fn two_groups(self) -> bool {
-        matches!(self, Family::TwoMeansPooled | Family::TwoMeansWelch | Family::TwoProportions)
-    }
-
-    pub fn discrete(self) -> bool {
-        matches!(self, Family::ProportionExact)
-    }
-
-    /// Smallest n (per group) for which the statistic is defined.
-    pub fn n_min(self) -> u64 {
-        match self {
-            Family::MeanT | Family::PairedT | Family::TwoMeansPooled | Family::TwoMeansWelch => 2,
-            _ => 1,
-        }
+    pub fn from_id(id: &str) -> Option<Alternative> {
+        Alternative::ALL.into_iter().find(|a| a.id() == id)
     }
 }
 
@@ -121,35 +60,69 @@ impl Effect {
     }
 }
 
-/// Everything a user states about a design, before validation. Fields a
-/// family does not use must be `None`.
+/// Everything a user states about a design, before validation: the family,
+/// the direction, and the numbers by their JSON names (the registry's
+/// design fields, `d` and the limits). Fields a family does not use must be
+/// absent.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct DesignSpec {
     pub family: Option<Family>,
     pub alternative: Option<Alternative>,
-    pub theta0: Option<f64>,
-    pub theta1: Option<f64>,
-    pub sigma: Option<f64>,
-    pub sigma1: Option<f64>,
-    pub sigma2: Option<f64>,
-    pub d: Option<f64>,
-    pub p1: Option<f64>,
-    pub p2: Option<f64>,
-    pub ratio: Option<f64>,
-    pub alpha_max: Option<f64>,
-    pub beta_max: Option<f64>,
-    pub weight: Option<f64>,
+    /// (field name, value) pairs, each name at most once.
+    pub values: Vec<(&'static str, f64)>,
+}
+
+impl DesignSpec {
+    pub fn new(family: Family, alternative: Alternative) -> DesignSpec {
+        DesignSpec { family: Some(family), alternative: Some(alternative), values: Vec::new() }
+    }
+
+    /// The value of a field, if given.
+    pub fn get(&self, key: &str) -> Option<f64> {
+        self.values.iter().find(|(k, _)| *k == key).map(|(_, v)| *v)
+    }
+
+    /// Give a field a value (replacing an earlier one).
+    pub fn set(&mut self, key: &'static str, v: f64) {
+        self.unset(key);
+        self.values.push((key, v));
+    }
+
+    /// Remove a field.
+    pub fn unset(&mut self, key: &str) {
+        self.values.retain(|(k, _)| *k != key);
+    }
+
+    /// Give a field a value or remove it.
+    pub fn put(&mut self, key: &'static str, v: Option<f64>) {
+        match v {
+            Some(v) => self.set(key, v),
+            None => self.unset(key),
+        }
+    }
+
+    /// The same specification with a field set.
+    pub fn with(mut self, key: &'static str, v: f64) -> DesignSpec {
+        self.set(key, v);
+        self
+    }
+
+    /// The same specification without these fields.
+    pub fn without(mut self, keys: &[&str]) -> DesignSpec {
+        self.values.retain(|(k, _)| !keys.contains(k));
+        self
+    }
 }
 
 /// A design broke a rule. Messages name the field, its value and the rule.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum DesignError {
     #[error("{field} is missing: {hint}")]
-    Missing { field: &'static str, hint: &'static str },
+    Missing { field: &'static str, hint: String },
     #[error("{field} is {value}, but must be {rule}")]
     OutOfRange { field: &'static str, value: f64, rule: &'static str },
     #[error("{field} does not apply to the family {family}: {hint}")]
-    NotApplicable { field: &'static str, family: &'static str, hint: &'static str },
+    NotApplicable { field: &'static str, family: &'static str, hint: String },
     #[error("{field} is {value}, but with the alternative \"{alternative}\" it must be {rule}")]
     Direction { field: &'static str, value: f64, alternative: &'static str, rule: String },
     #[error("give either d or theta1 with sigma, not both")]
@@ -174,127 +147,66 @@ pub struct Design {
     pub standardised: bool,
 }
 
-fn finite(field: &'static str, v: f64) -> Result<f64, DesignError> {
-    if v.is_finite() { Ok(v) } else { Err(DesignError::OutOfRange { field, value: v, rule: "a finite number" }) }
+fn check(field: &Field, v: f64) -> Result<f64, DesignError> {
+    if field.check.holds(v) { Ok(v) } else { Err(DesignError::OutOfRange { field: field.key, value: v, rule: field.check.rule() }) }
 }
 
-fn positive(field: &'static str, v: f64) -> Result<f64, DesignError> {
-    if v.is_finite() && v > 0.0 {
-        Ok(v)
-    } else {
-        Err(DesignError::OutOfRange { field, value: v, rule: "a finite number > 0" })
+fn value(spec: &DesignSpec, field: &Field) -> Result<Option<f64>, DesignError> {
+    match spec.get(field.key) {
+        None if field.required => Err(DesignError::Missing { field: field.key, hint: field.hint.into() }),
+        None => Ok(None),
+        Some(v) => check(field, v).map(Some),
     }
-}
-
-fn open_unit(field: &'static str, v: f64) -> Result<f64, DesignError> {
-    if v > 0.0 && v < 1.0 {
-        Ok(v)
-    } else {
-        Err(DesignError::OutOfRange { field, value: v, rule: "between 0 and 1 (exclusive)" })
-    }
-}
-
-fn limit(field: &'static str, v: Option<f64>) -> Result<f64, DesignError> {
-    let hint = if field == "alpha_max" {
-        "choose the largest type I error rate (false alarm) the context can accept, between 0 and 0.5"
-    } else {
-        "choose the largest type II error rate (missed effect) the context can accept, between 0 and 0.5"
-    };
-    let v = v.ok_or(DesignError::Missing { field, hint })?;
-    if v > 0.0 && v < 0.5 {
-        Ok(v)
-    } else {
-        Err(DesignError::OutOfRange { field, value: v, rule: "between 0 and 0.5 (exclusive)" })
-    }
-}
-
-fn need(field: &'static str, v: Option<f64>, hint: &'static str) -> Result<f64, DesignError> {
-    v.ok_or(DesignError::Missing { field, hint })
 }
 
 impl Design {
-    /// Validate a specification. Every rule of DEVELOPERS.md is checked here.
+    /// Validate a specification against the family's registry entry
+    /// (fields, rules, messages), then build the effect.
     pub fn new(spec: &DesignSpec) -> Result<Design, DesignError> {
-        let family = spec.family.ok_or(DesignError::Missing {
-            field: "family",
-            hint: "choose one of mean_z, mean_t, paired_t, two_means_pooled, two_means_welch, proportion_exact, proportion_normal, two_proportions",
-        })?;
-        let alternative = spec.alternative.ok_or(DesignError::Missing {
+        let family = spec.family.ok_or_else(|| DesignError::Missing { field: "family", hint: format!("choose one of {}", Family::ids()) })?;
+        let entry = family.entry();
+        let alternative = spec.alternative.ok_or_else(|| DesignError::Missing {
             field: "alternative",
-            hint: "choose greater, less or two_sided",
+            hint: "choose greater, less or two_sided".into(),
         })?;
-        let alpha_max = limit("alpha_max", spec.alpha_max)?;
-        let beta_max = limit("beta_max", spec.beta_max)?;
-        let weight = match spec.weight {
-            None => 0.5,
-            Some(w) => open_unit("weight", w)?,
-        };
-        let not_for = |field: &'static str, present: bool, hint: &'static str| {
-            if present { Err(DesignError::NotApplicable { field, family: family.id(), hint }) } else { Ok(()) }
-        };
-        let ratio = if family.two_groups() {
-            match spec.ratio {
-                None => 1.0,
-                Some(r) if r.is_finite() && r > 0.0 && r <= 100.0 => r,
-                Some(r) => {
-                    return Err(DesignError::OutOfRange { field: "ratio", value: r, rule: "between 0 and 100 (n2 = ratio·n1)" });
-                }
+        let [alpha, beta, weight] = &LIMITS;
+        let alpha_max = value(spec, alpha)?.unwrap_or(f64::NAN);
+        let beta_max = value(spec, beta)?.unwrap_or(f64::NAN);
+        let weight = value(spec, weight)?.unwrap_or(0.5);
+        // A field the family does not take is wrong whatever its value.
+        for &(key, _) in &spec.values {
+            if !entry.accepts(key) {
+                let what = REGISTRY.iter().find_map(|e| e.design_field(key)).map_or(String::new(), |f| format!("{key} is {}; ", f.needed));
+                return Err(DesignError::NotApplicable { field: key, family: entry.id, hint: format!("{what}{}", entry.takes()) });
             }
-        } else {
-            not_for("ratio", spec.ratio.is_some(), "it is the allocation ratio n2/n1 of two-group families")?;
-            1.0
-        };
-        let mut standardised = false;
+        }
+        // A standardised effect d stands for θ0 = 0, θ1 = d, σ = 1.
+        const REPLACED: [&str; 3] = ["theta0", "theta1", "sigma"];
+        let standardised = entry.standardised && spec.get(STANDARDISED.key).is_some();
+        let mut values: Vec<(&'static str, f64)> = Vec::new();
+        if standardised {
+            if REPLACED.iter().any(|k| spec.get(k).is_some()) {
+                return Err(DesignError::EffectTwice);
+            }
+            let d = value(spec, &STANDARDISED)?.unwrap_or(f64::NAN);
+            values.extend([("theta0", 0.0), ("theta1", d), ("sigma", 1.0)]);
+        }
+        for field in entry.design.iter().filter(|f| !(standardised && REPLACED.contains(&f.key))) {
+            if let Some(v) = value(spec, field)? {
+                values.push((field.key, v));
+            }
+        }
+        let get = |key: &str| values.iter().find(|(k, _)| *k == key).map_or(f64::NAN, |(_, v)| *v);
+        let ratio = if entry.two_groups { values.iter().find(|(k, _)| *k == "ratio").map_or(1.0, |(_, v)| *v) } else { 1.0 };
         let effect = match family {
             Family::MeanZ | Family::MeanT | Family::PairedT | Family::TwoMeansPooled => {
-                not_for("sigma1", spec.sigma1.is_some(), "per-group SDs belong to two_means_welch; use sigma")?;
-                not_for("sigma2", spec.sigma2.is_some(), "per-group SDs belong to two_means_welch; use sigma")?;
-                not_for("p1", spec.p1.is_some(), "use theta0 and theta1")?;
-                not_for("p2", spec.p2.is_some(), "use theta0 and theta1")?;
-                if let Some(d) = spec.d {
-                    if spec.theta1.is_some() || spec.sigma.is_some() || spec.theta0.is_some() {
-                        return Err(DesignError::EffectTwice);
-                    }
-                    let d = finite("d", d)?;
-                    standardised = true;
-                    Effect::Mean { theta0: 0.0, theta1: d, sigma: 1.0 }
-                } else {
-                    let theta0 = finite("theta0", need("theta0", spec.theta0, "the mean (or difference) under H0")?)?;
-                    let theta1 = finite(
-                        "theta1",
-                        need("theta1", spec.theta1, "the smallest effect worth finding, as the mean under the alternative (or give d)")?,
-                    )?;
-                    let sigma = positive("sigma", need("sigma", spec.sigma, "the planning standard deviation")?)?;
-                    Effect::Mean { theta0, theta1, sigma }
-                }
+                Effect::Mean { theta0: get("theta0"), theta1: get("theta1"), sigma: get("sigma") }
             }
             Family::TwoMeansWelch => {
-                not_for("d", spec.d.is_some(), "with two SDs give theta0, theta1, sigma1 and sigma2")?;
-                not_for("sigma", spec.sigma.is_some(), "give sigma1 and sigma2")?;
-                not_for("p1", spec.p1.is_some(), "use theta0 and theta1")?;
-                not_for("p2", spec.p2.is_some(), "use theta0 and theta1")?;
-                let theta0 = finite("theta0", need("theta0", spec.theta0, "the difference of means under H0")?)?;
-                let theta1 = finite("theta1", need("theta1", spec.theta1, "the smallest difference worth finding")?)?;
-                let sigma1 = positive("sigma1", need("sigma1", spec.sigma1, "the planning SD of group 1")?)?;
-                let sigma2 = positive("sigma2", need("sigma2", spec.sigma2, "the planning SD of group 2")?)?;
-                Effect::Welch { theta0, theta1, sigma1, sigma2 }
+                Effect::Welch { theta0: get("theta0"), theta1: get("theta1"), sigma1: get("sigma1"), sigma2: get("sigma2") }
             }
-            Family::ProportionExact | Family::ProportionNormal => {
-                for (f, v) in [("d", spec.d), ("sigma", spec.sigma), ("sigma1", spec.sigma1), ("sigma2", spec.sigma2), ("p1", spec.p1), ("p2", spec.p2)] {
-                    not_for(f, v.is_some(), "a proportion design takes theta0 (p under H0) and theta1 (p under the alternative)")?;
-                }
-                let p0 = open_unit("theta0", need("theta0", spec.theta0, "the proportion under H0")?)?;
-                let p1 = open_unit("theta1", need("theta1", spec.theta1, "the proportion under the alternative")?)?;
-                Effect::Proportion { p0, p1 }
-            }
-            Family::TwoProportions => {
-                for (f, v) in [("d", spec.d), ("sigma", spec.sigma), ("sigma1", spec.sigma1), ("sigma2", spec.sigma2), ("theta0", spec.theta0), ("theta1", spec.theta1)] {
-                    not_for(f, v.is_some(), "two proportions take p1 and p2, the group rates under the alternative")?;
-                }
-                let p1 = open_unit("p1", need("p1", spec.p1, "the rate in group 1 under the alternative")?)?;
-                let p2 = open_unit("p2", need("p2", spec.p2, "the rate in group 2 under the alternative")?)?;
-                Effect::TwoProportions { p1, p2 }
-            }
+            Family::ProportionExact | Family::ProportionNormal => Effect::Proportion { p0: get("theta0"), p1: get("theta1") },
+            Family::TwoProportions => Effect::TwoProportions { p1: get("p1"), p2: get("p2") },
         };
         let (theta0, theta1) = effect.thetas();
         let field = match (family, standardised) {
@@ -316,12 +228,7 @@ impl Design {
             _ => None,
         };
         if let Some(rule) = rule {
-            let alternative = match alternative {
-                Alternative::Greater => "greater",
-                Alternative::Less => "less",
-                Alternative::TwoSided => "two_sided",
-            };
-            return Err(DesignError::Direction { field, value: shown, alternative, rule });
+            return Err(DesignError::Direction { field, value: shown, alternative: alternative.id(), rule });
         }
         Ok(Design { family, alternative, effect, alpha_max, beta_max, weight, ratio, standardised })
     }

@@ -8,6 +8,7 @@
 pub mod dist;
 pub mod root;
 pub mod threshold;
+pub mod family;
 pub mod design;
 pub mod conventional;
 pub mod evaluate;

@@ -9,6 +9,7 @@
 use super::curves::{Curves, curves};
 use super::decision::{Decision, DecisionError, Summary, decide};
 use super::design::{Design, DesignError, DesignSpec, Family};
+use super::family;
 use super::evaluate::{EvaluateError, Evaluation, evaluate};
 use super::inverse::{SmallestEffect, smallest_effect};
 use super::sample_size::{SampleSize, sample_size};
@@ -21,11 +22,13 @@ pub const CAUTION: &str = "Decision support only: Tern does not replace a pre-re
 statistician, regulatory guidance or local law, least of all for clinical or personnel decisions.";
 
 /// The fields that describe a design (what the page may keep, export or
-/// share); `n`, `data` and `curves` are the request's other fields.
-pub const DESIGN_FIELDS: [&str; 14] = [
-    "family", "alternative", "theta0", "theta1", "sigma", "sigma1", "sigma2", "d", "p1", "p2", "ratio", "alpha_max", "beta_max",
-    "weight",
-];
+/// share): `family`, `alternative` and every design field of the registry;
+/// `n`, `data` and `curves` are the request's other fields.
+pub fn design_fields() -> Vec<&'static str> {
+    let mut v = vec!["family", "alternative"];
+    v.extend(family::design_keys());
+    v
+}
 const OTHER_FIELDS: [&str; 3] = ["n", "data", "curves"];
 
 /// What is wrong with a request.
@@ -129,14 +132,15 @@ pub fn parse(text: &str) -> Result<Request, RequestError> {
 /// Parse a request already read as JSON.
 pub fn parse_value(value: &Value) -> Result<Request, RequestError> {
     let obj = value.as_object().ok_or(RequestError::NotObject)?;
-    let known: Vec<&str> = DESIGN_FIELDS.iter().chain(OTHER_FIELDS.iter()).copied().collect();
+    let mut known = design_fields();
+    known.extend(OTHER_FIELDS);
     check_fields(obj, &known, "")?;
     let family = match obj.get("family") {
         None | Some(Value::Null) => None,
         Some(Value::String(s)) => Some(Family::from_id(s).ok_or_else(|| RequestError::BadValue {
             field: "family".into(),
             shown: format!("\"{s}\""),
-            rule: format!("one of {}", Family::ALL.map(|f| f.id()).join(", ")),
+            rule: format!("one of {}", Family::ids()),
         })?),
         Some(v) => {
             return Err(RequestError::BadValue { field: "family".into(), shown: shown(v), rule: "a family name such as \"mean_t\"".into() });
@@ -144,52 +148,21 @@ pub fn parse_value(value: &Value) -> Result<Request, RequestError> {
     };
     let alternative = match obj.get("alternative") {
         None | Some(Value::Null) => None,
-        Some(Value::String(s)) => Some(match s.as_str() {
-            "greater" => Alternative::Greater,
-            "less" => Alternative::Less,
-            "two_sided" => Alternative::TwoSided,
-            _ => {
-                return Err(RequestError::BadValue {
-                    field: "alternative".into(),
-                    shown: format!("\"{s}\""),
-                    rule: "one of greater, less, two_sided".into(),
-                });
-            }
-        }),
+        Some(Value::String(s)) => Some(Alternative::from_id(s).ok_or_else(|| RequestError::BadValue {
+            field: "alternative".into(),
+            shown: format!("\"{s}\""),
+            rule: format!("one of {}", Alternative::ALL.map(Alternative::id).join(", ")),
+        })?),
         Some(v) => return Err(RequestError::BadValue { field: "alternative".into(), shown: shown(v), rule: "greater, less or two_sided".into() }),
     };
-    let f = |name: &str| number(obj, name, "");
-    let spec = DesignSpec {
-        family,
-        alternative,
-        theta0: f("theta0")?,
-        theta1: f("theta1")?,
-        sigma: f("sigma")?,
-        sigma1: f("sigma1")?,
-        sigma2: f("sigma2")?,
-        d: f("d")?,
-        p1: f("p1")?,
-        p2: f("p2")?,
-        ratio: f("ratio")?,
-        alpha_max: f("alpha_max")?,
-        beta_max: f("beta_max")?,
-        weight: f("weight")?,
-    };
+    let mut spec = DesignSpec { family, alternative, values: Vec::new() };
+    for key in family::design_keys() {
+        spec.put(key, number(obj, key, "")?);
+    }
     let design = Design::new(&spec)?;
-    let n = match f("n")? {
+    let n = match number(obj, "n", "")? {
         None => None,
-        Some(x) => {
-            let min = design.n_min();
-            let max = design.n_max();
-            if x.fract() != 0.0 || x < min as f64 || x > max as f64 {
-                return Err(RequestError::BadValue {
-                    field: "n".into(),
-                    shown: format!("{x}"),
-                    rule: format!("a whole number from {min} to {max}"),
-                });
-            }
-            Some(x as u64)
-        }
+        Some(x) => Some(sample_size_n(&design, x)?),
     };
     let data = match obj.get("data") {
         None | Some(Value::Null) => None,
@@ -204,73 +177,41 @@ pub fn parse_value(value: &Value) -> Result<Request, RequestError> {
     Ok(Request { design, n, data, curves })
 }
 
-fn summary(d: &Map<String, Value>, family: Family) -> Result<Summary, RequestError> {
-    let req = |name: &'static str| -> Result<f64, RequestError> {
-        number(d, name, "data.")?.ok_or(RequestError::Decision(DecisionError::Missing { field: leak(name), hint: "a summary figure of the data" }))
-    };
-    let s = match family {
-        Family::MeanZ | Family::MeanT | Family::PairedT => {
-            check_fields(d, &["n", "mean", "sd"], "data.")?;
-            Summary::OneGroup { n: req("n")?, mean: req("mean")?, sd: number(d, "sd", "data.")? }
-        }
-        Family::TwoMeansPooled | Family::TwoMeansWelch => {
-            check_fields(d, &["n1", "mean1", "sd1", "n2", "mean2", "sd2"], "data.")?;
-            Summary::TwoGroups {
-                n1: req("n1")?,
-                mean1: req("mean1")?,
-                sd1: req("sd1")?,
-                n2: req("n2")?,
-                mean2: req("mean2")?,
-                sd2: req("sd2")?,
-            }
-        }
-        Family::ProportionExact | Family::ProportionNormal => {
-            check_fields(d, &["successes", "trials"], "data.")?;
-            Summary::Proportion { successes: req("successes")?, trials: req("trials")? }
-        }
-        Family::TwoProportions => {
-            check_fields(d, &["successes1", "trials1", "successes2", "trials2"], "data.")?;
-            Summary::TwoProportions {
-                successes1: req("successes1")?,
-                trials1: req("trials1")?,
-                successes2: req("successes2")?,
-                trials2: req("trials2")?,
-            }
-        }
-    };
-    Ok(s)
+/// A typed n checked against the design's range.
+fn sample_size_n(design: &Design, x: f64) -> Result<u64, RequestError> {
+    let (min, max) = (design.n_min(), design.n_max());
+    if x.fract() != 0.0 || x < min as f64 || x > max as f64 {
+        return Err(RequestError::BadValue { field: "n".into(), shown: format!("{x}"), rule: format!("a whole number from {min} to {max}") });
+    }
+    Ok(x as u64)
 }
 
-/// Field names of summary data, with their "data." prefix, as static text.
-fn leak(name: &'static str) -> &'static str {
-    match name {
-        "n" => "data.n",
-        "mean" => "data.mean",
-        "sd" => "data.sd",
-        "n1" => "data.n1",
-        "mean1" => "data.mean1",
-        "sd1" => "data.sd1",
-        "n2" => "data.n2",
-        "mean2" => "data.mean2",
-        "sd2" => "data.sd2",
-        "successes" => "data.successes",
-        "trials" => "data.trials",
-        "successes1" => "data.successes1",
-        "trials1" => "data.trials1",
-        "successes2" => "data.successes2",
-        "trials2" => "data.trials2",
-        _ => "data",
+fn summary(d: &Map<String, Value>, family: Family) -> Result<Summary, RequestError> {
+    let entry = family.entry();
+    let keys: Vec<&str> = entry.data.iter().map(|f| f.key).collect();
+    check_fields(d, &keys, "data.")?;
+    let mut values = Vec::new();
+    for f in entry.data {
+        if let Some(v) = number(d, f.key, "data.")? {
+            values.push((f.key, v));
+        }
     }
+    Ok(Summary::from_fields(family, &values)?)
 }
 
 /// Answer a parsed request.
 pub fn answer(req: &Request) -> Result<Answer, RequestError> {
-    let design = &req.design;
-    let sample_size = sample_size(design)?;
     let decision = match &req.data {
-        Some(d) => Some(decide(design, d)?),
+        Some(d) => Some(decide(&req.design, d)?),
         None => None,
     };
+    answer_with(req, decision)
+}
+
+/// Answer a request whose data, if any, are already decided.
+fn answer_with(req: &Request, decision: Option<Decision>) -> Result<Answer, RequestError> {
+    let design = &req.design;
+    let sample_size = sample_size(design)?;
     let at_n = match (req.n, decision.as_ref(), &sample_size.at_youden) {
         (Some(n), _, _) => Some(evaluate(design, n)?),
         (None, Some(d), _) => Some(d.at_n.clone()),
@@ -299,6 +240,110 @@ pub fn answer(req: &Request) -> Result<Answer, RequestError> {
         decision,
         curves,
     })
+}
+
+/// What a caller holding typed values (the page) asks for one state of its
+/// form: the design, and as typed, a sample size to check and summary data
+/// by field name (without `data.`).
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Ask {
+    pub spec: DesignSpec,
+    pub n: Option<f64>,
+    pub data: Option<Vec<(&'static str, f64)>>,
+}
+
+/// A sample size checked on its own: the design there and the smallest
+/// effect it makes conclusive.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Check {
+    pub at_n: Evaluation,
+    pub smallest_effect: SmallestEffect,
+}
+
+/// Everything the page shows for one [`Ask`], with every refusal at once.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Reply {
+    /// None when the design itself is refused or cannot be computed.
+    pub answer: Option<Answer>,
+    /// The typed n, checked on its own while the data's n leads the answer
+    /// and its charts.
+    pub check: Option<Check>,
+    /// Every refusal: the design's (then nothing else is computed), the
+    /// typed n's and the data's (the rest is still answered without them).
+    pub errors: Vec<RequestError>,
+}
+
+/// Answer an [`Ask`] in one pass: the sample-size search runs once, a
+/// refused n or refused data are reported beside an answer computed
+/// without them, and the charts follow the data's n when data decide
+/// (else the typed n, else the Youden n).
+pub fn reply(ask: &Ask) -> Reply {
+    let mut errors = Vec::new();
+    let design = match Design::new(&ask.spec) {
+        Ok(d) => d,
+        Err(e) => return Reply { answer: None, check: None, errors: vec![e.into()] },
+    };
+    let n = ask.n.and_then(|x| sample_size_n(&design, x).map_err(|e| errors.push(e)).ok());
+    let summary = ask.data.as_ref().and_then(|d| Summary::from_fields(design.family, d).map_err(|e| errors.push(e.into())).ok());
+    let mut decision = None;
+    if let Some(s) = &summary {
+        match decide(&design, s) {
+            Ok(d) => decision = Some(d),
+            Err(e) => errors.push(e.into()),
+        }
+    }
+    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true };
+    let answer = match answer_with(&req, decision) {
+        Ok(a) => a,
+        Err(e) => {
+            errors.push(e);
+            return Reply { answer: None, check: None, errors };
+        }
+    };
+    let check = match (n, answer.decision.is_some()) {
+        (Some(n), true) => match (evaluate(&design, n), smallest_effect(&design, n)) {
+            (Ok(at_n), Ok(smallest_effect)) => Some(Check { at_n, smallest_effect }),
+            (Err(e), _) => {
+                errors.push(e.into());
+                None
+            }
+            (_, Err(e)) => {
+                errors.push(e.into());
+                None
+            }
+        },
+        (Some(_), false) => match (&answer.at_n, &answer.smallest_effect) {
+            (Some(at_n), Some(se)) => Some(Check { at_n: at_n.clone(), smallest_effect: se.clone() }),
+            _ => None,
+        },
+        _ => None,
+    };
+    Reply { answer: Some(answer), check, errors }
+}
+
+/// A design (and a sample size to check) as the contract's flat JSON
+/// object: what a kept design, an exported file or a share link holds.
+/// Whole numbers are written as integers, so counts read back exactly.
+pub fn design_json(spec: &DesignSpec, n: Option<f64>) -> Map<String, Value> {
+    let mut m = Map::new();
+    if let Some(f) = spec.family {
+        m.insert("family".into(), Value::String(f.id().into()));
+    }
+    if let Some(a) = spec.alternative {
+        m.insert("alternative".into(), Value::String(a.id().into()));
+    }
+    let number = |v: f64| {
+        if v.fract() == 0.0 && v.abs() < 9.0e15 { Value::from(v as i64) } else { serde_json::Number::from_f64(v).map_or(Value::Null, Value::Number) }
+    };
+    for key in design_fields() {
+        if let Some(v) = spec.get(key) {
+            m.insert(key.into(), number(v));
+        }
+    }
+    if let Some(n) = n {
+        m.insert("n".into(), number(n));
+    }
+    m
 }
 
 /// Parse, answer and serialise: the whole contract in one call.

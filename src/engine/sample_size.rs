@@ -431,21 +431,14 @@ mod tests {
     /// 120.3 → 121.
     #[test]
     fn z_test_youden_versus_conventional() {
-        let spec = DesignSpec {
-            family: Some(Family::MeanZ),
-            alternative: Some(Alternative::Greater),
-            d: Some(0.3),
-            alpha_max: Some(0.05),
-            beta_max: Some(0.2),
-            ..Default::default()
-        };
+        let spec = DesignSpec::new(Family::MeanZ, Alternative::Greater).with("d", 0.3).with("alpha_max", 0.05).with("beta_max", 0.2);
         let design = Design::new(&spec).unwrap();
         let s = sample_size(&design).unwrap();
         assert_eq!(s.youden.map(|g| g.n1), Some(121));
         assert_eq!(s.conventional.map(|g| g.n1), Some(69));
         assert!(s.solves < 40, "{} solves", s.solves);
         let w = s.balancing_weight.unwrap();
-        let weighted = Design::new(&DesignSpec { weight: Some(w), ..spec }).unwrap();
+        let weighted = Design::new(&spec.clone().with("weight", w)).unwrap();
         let sw = sample_size(&weighted).unwrap();
         assert!(sw.youden.unwrap().n1 <= 69, "{:?}", sw.youden);
         println!("{:?} {}", s.notes, w);

@@ -18,10 +18,11 @@ mod page_canvas;
 mod saved;
 mod view;
 
-use crate::engine::request::{self, Answer, RequestError};
+use crate::engine::request;
+use crate::page::form as page_form;
 use charts::prep::{self, Views};
 use serde::Serialize;
-use serde_json::{Map, Value};
+use serde_json::Value;
 use std::cell::RefCell;
 use std::rc::Rc;
 use wasm_bindgen::JsCast;
@@ -76,6 +77,7 @@ fn listen(target: &web_sys::EventTarget, event: &str, f: impl FnMut(web_sys::Eve
 
 fn setup() -> Result<(), JsValue> {
     let window = dom::window().ok_or("no window")?;
+    form::build()?;
     let form_el = dom::by_id("tern-form").ok_or("the form #tern-form is missing")?;
     listen(&form_el, "input", |_| recompute())?;
     listen(&form_el, "submit", |e| e.prevent_default())?;
@@ -152,12 +154,7 @@ fn schedule_redraw() {
     }
 }
 
-fn ask(req: &Map<String, Value>) -> Result<Answer, RequestError> {
-    let r = request::parse_value(&Value::Object(req.clone()))?;
-    request::answer(&r)
-}
-
-/// Read the form, ask the engine, show everything. Runs on every input.
+/// Read the form, ask the engine once, show everything. Runs on every input.
 fn recompute() {
     let t0 = dom::now_ms();
     dom::set_hidden("page-alert", true);
@@ -165,7 +162,6 @@ fn recompute() {
     datafile::sync(dom::checked_radio("family").and_then(|id| crate::engine::design::Family::from_id(&id)));
     let reading = form::read();
     form::show_fields(reading.family, &reading.unit);
-    dom::set_text("general-msg", "");
     let mut messages = reading.messages.clone();
     if !reading.design_ready() {
         form::show_messages(&messages);
@@ -175,79 +171,28 @@ fn recompute() {
         finish(t0);
         return;
     }
-    let mut req = reading.request.clone();
-    let typed_n = req.get("n").cloned();
-    // With data, the charts follow the data's n; a typed n is checked apart.
-    if reading.data_complete {
-        req.remove("n");
-    }
-    // When the engine refuses the summary data or the typed n, say so next
-    // to the field and still show the design without them.
-    let mut result = ask(&req);
-    for _ in 0..2 {
-        let Err(err) = &result else { break };
-        let m = form::engine_message(reading.family, err);
-        let part = form::part(&m);
-        messages.push(m);
-        match part {
-            Some(form::Part::Data) => {
-                req.remove("data");
-            }
-            Some(form::Part::Size) => {
-                req.remove("n");
-            }
-            _ => break,
+    // One call: a refused n or refused data come back beside an answer
+    // computed without them.
+    let reply = request::reply(&reading.ask);
+    for err in &reply.errors {
+        let m = page_form::engine_message(reading.family, err);
+        if !messages.contains(&m) {
+            messages.push(m);
         }
-        result = ask(&req);
     }
-    let answer = match result {
-        Ok(a) => a,
-        Err(err) => {
-            let m = form::engine_message(reading.family, &err);
-            if !messages.contains(&m) {
-                messages.push(m);
-            }
-            // A message with no field of its own goes to the general line.
-            for m in messages.iter().filter(|m| m.field.is_empty() || !form::is_field(&m.field)) {
-                dom::set_text("general-msg", &m.text);
-            }
-            form::show_messages(&messages);
-            view::show_incomplete(&[]);
-            set_views(None);
-            canvas::clear_all();
-            finish(t0);
-            return;
-        }
-    };
     form::show_messages(&messages);
-    for m in messages.iter().filter(|m| m.field.is_empty() || !form::is_field(&m.field)) {
-        dom::set_text("general-msg", &m.text);
-    }
+    let Some(answer) = reply.answer else {
+        view::show_incomplete(&[]);
+        set_views(None);
+        canvas::clear_all();
+        finish(t0);
+        return;
+    };
     view::show_answer(&answer, &reading.unit);
     if answer.decision.is_none() && reading.data_started {
         view::show_no_decision("Complete or correct the summary figures marked above to decide.");
     }
-    // "Check a sample size you already have", when the charts follow the data.
-    let check = match (&typed_n, reading.data_complete, req.contains_key("n")) {
-        (Some(n), true, _) => {
-            let mut r2: Map<String, Value> = req.clone();
-            r2.remove("data");
-            r2.insert("curves".into(), Value::Bool(false));
-            r2.insert("n".into(), n.clone());
-            match ask(&r2) {
-                Ok(a) => Some(a),
-                Err(err) => {
-                    let m = form::engine_message(reading.family, &err);
-                    messages.push(m);
-                    form::show_messages(&messages);
-                    None
-                }
-            }
-        }
-        (Some(_), false, true) => Some(answer.clone()),
-        _ => None,
-    };
-    view::show_check(check.as_ref());
+    view::show_check(reply.check.as_ref());
     let views = match (&answer.at_n, &answer.curves) {
         (Some(at), Some(curves)) => {
             let observed = answer.decision.as_ref().map(|d| d.statistic);

@@ -2,7 +2,7 @@
 //! and shared as a link: the design alone, never data.
 //!
 //! A design here is the engine's request without `data` and `curves`: the
-//! fields of [`request::DESIGN_FIELDS`] and `n` (a sample size to check),
+//! fields of [`request::design_fields`] and `n` (a sample size to check),
 //! with the engine's field names, so an exported file runs as it is with
 //! `tern run`. Every design that comes in (a file, a link, a kept entry) is
 //! checked by the engine's own parser first, and a refusal names the field.
@@ -14,7 +14,7 @@
 
 use super::{dom, form, listen, recompute};
 use crate::engine::design::Family;
-use crate::engine::request::{self, DESIGN_FIELDS};
+use crate::engine::request;
 use serde::{Deserialize, Serialize};
 use serde_json::{Map, Value};
 use wasm_bindgen::JsCast;
@@ -86,7 +86,7 @@ pub fn open_from_link() -> bool {
     match check(&design) {
         Ok(()) => {
             form::fill(&[]);
-            form::set_design(&design);
+            form::set_design_json(&design);
             note("This design was opened from a link. A link holds the design only: add your own summary figures to decide.");
             true
         }
@@ -108,7 +108,7 @@ fn design_only() -> Result<Map<String, Value>, String> {
             format!("Complete the design first; still needed: {}.", reading.still_needed.join(", "))
         });
     }
-    let design: Map<String, Value> = reading.request.into_iter().filter(|(k, _)| DESIGN_FIELDS.contains(&k.as_str()) || k == "n").collect();
+    let design = request::design_json(&reading.ask.spec, reading.ask.n);
     check(&design).map_err(|e| format!("This design cannot be kept as it is: {e}."))?;
     Ok(design)
 }
@@ -217,7 +217,7 @@ fn open_kept(i: usize) {
     };
     match check(&k.design) {
         Ok(()) => {
-            form::set_design(&k.design);
+            form::set_design_json(&k.design);
             recompute();
             say(&format!("Opened “{}”. Summary figures and notes were left as they were.", k.name));
         }
@@ -317,7 +317,7 @@ fn import_text(name: &str, text: &str) {
     if let Err(e) = check(&design) {
         return say(&format!("{name} was not imported: {e}."));
     }
-    form::set_design(&design);
+    form::set_design_json(&design);
     recompute();
     let left_out = if had_data { " Its summary data were left out: only designs are imported." } else { "" };
     say(&format!("Imported the design from {name}.{left_out}"));
@@ -340,7 +340,7 @@ fn share() {
 
 fn to_link(design: &Map<String, Value>) -> String {
     let mut parts = Vec::new();
-    for key in DESIGN_FIELDS.iter().copied().chain(["n"]) {
+    for key in request::design_fields().into_iter().chain(["n"]) {
         let text = match design.get(key) {
             Some(Value::Number(x)) => x.to_string(),
             Some(Value::String(s)) => s.clone(),

@@ -7,14 +7,10 @@ use super::dom::{self, escape};
 use crate::engine::decision::Outcome;
 use crate::engine::design::Family;
 use crate::engine::evaluate::{Evaluation, Rule};
-use crate::engine::request::Answer;
+use crate::engine::request::{Answer, Check};
 
 fn unit_of(family: Family, unit: &str) -> String {
-    if matches!(family, Family::ProportionExact | Family::ProportionNormal | Family::TwoProportions) || unit.trim().is_empty() {
-        String::new()
-    } else {
-        format!(" {}", unit.trim())
-    }
+    if !family.entry().in_unit || unit.trim().is_empty() { String::new() } else { format!(" {}", unit.trim()) }
 }
 
 fn sizes(n1: u64, n2: Option<u64>) -> String {
@@ -28,13 +24,7 @@ fn sizes(n1: u64, n2: Option<u64>) -> String {
 /// The rejection rule in words, on the estimate's scale and the statistic's.
 pub fn rule_text(rule: &Rule, stat: &str, family: Family, unit: &str) -> String {
     let u = unit_of(family, unit);
-    let est = match family {
-        Family::MeanZ | Family::MeanT => "the sample mean",
-        Family::PairedT => "the mean difference",
-        Family::TwoMeansPooled | Family::TwoMeansWelch => "the difference of means",
-        Family::ProportionExact | Family::ProportionNormal => "the proportion",
-        Family::TwoProportions => "the difference of proportions",
-    };
+    let est = family.entry().estimate;
     match *rule {
         Rule::Above { statistic, estimate } => {
             format!("reject H0 when {est} is above {}{u} ({stat} > {})", short(estimate), short(statistic))
@@ -220,13 +210,14 @@ fn at_n_text(at: &Evaluation) -> String {
 }
 
 /// The answer to "check a sample size you already have".
-pub fn show_check(ans: Option<&Answer>) {
-    let Some(ans) = ans else {
+pub fn show_check(check: Option<&Check>) {
+    let Some(check) = check else {
         dom::set_text("check-result", "");
         return;
     };
-    let mut text = ans.at_n.as_ref().map(at_n_text).unwrap_or_default();
-    if let Some(se) = &ans.smallest_effect {
+    let mut text = at_n_text(&check.at_n);
+    {
+        let se = &check.smallest_effect;
         match se.theta1 {
             Some(t) => {
                 let d = se.d.map_or(String::new(), |d| format!(" (standardised d = {})", short(d)));

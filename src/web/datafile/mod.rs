@@ -12,7 +12,6 @@
 //! `Blob.arrayBuffer()` in chunks, no request is made.
 
 mod fill;
-mod mapping;
 mod sheets;
 mod show;
 
@@ -20,7 +19,8 @@ use super::{dom, listen};
 use crate::engine::design::Family;
 use crate::engine::table::{self, DataSummary, DecimalMark, ReadOptions, Table, TableBuilder};
 use fill::Fill;
-use mapping::{Choice, Role, Shape};
+use crate::engine::family::{Role, Shape};
+use crate::page::roles::{self as mapping, Choice};
 use std::cell::RefCell;
 use std::rc::Rc;
 use wasm_bindgen::JsCast;
@@ -380,7 +380,7 @@ fn remap() {
     let Some((t, family, old)) = with(|s| s.table.clone().map(|t| (t, s.family, s.choice.clone()))) else { return };
     match family {
         Some(f) => {
-            let sh = mapping::shape(f);
+            let sh = f.entry().shape;
             let c = mapping::complete(&t, sh, &old, &unit());
             show::mapping(&t, sh, &c);
             with(|s| s.choice = c);
@@ -396,7 +396,7 @@ fn resummarise(and_recompute: bool) {
         return;
     };
     let outcome = family.ok_or("Choose what you are comparing (step 1) to summarise the file.".to_string()).and_then(|f| {
-        let sh = mapping::shape(f);
+        let sh = f.entry().shape;
         let m = mapping::to_mapping(&t, sh, &choice).map_err(|q| format!("Still to choose: {q}"))?;
         let rows: &[usize] = if exclude { &t.problems.rows } else { &[] };
         let t0 = dom::now_ms();
@@ -454,7 +454,7 @@ fn show_fill_note() {
     let text = if !active {
         format!("The summary figures below are yours, not the file’s: “{name}” is read but not used for the decision.")
     } else if shown > 0 {
-        let how = family.map(|f| mapping::describe(mapping::shape(f), &choice)).unwrap_or_default();
+        let how = family.map(|f| mapping::describe(f.entry().shape, &choice)).unwrap_or_default();
         format!(
             "The summary figures below marked ▣ come from “{name}” ({how}). Type over any of them to use your own figure instead; the file will not change it again."
         )

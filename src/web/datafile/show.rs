@@ -11,7 +11,8 @@ use super::super::charts::histogram::{self, HistogramGroup, HistogramView};
 use super::super::charts::quantile::{self, QuantileGroup, QuantileView};
 use super::super::charts::short;
 use super::super::{canvas, dom};
-use super::mapping::{self, Choice, Role, Shape};
+use crate::engine::family::{Role, Shape};
+use crate::page::roles::{self as mapping, Choice};
 use crate::engine::table::{self, ColumnKind, DataSummary, DecimalMark, Format, ReadOptions, Table};
 use web_sys::Element;
 
@@ -240,7 +241,7 @@ fn plural<'a>(n: usize, one: &'a str, many: &'a str) -> &'a str {
 /// The column questions of a family, each as a group of chips.
 pub fn mapping(t: &Table, s: Shape, c: &Choice) {
     let Some(div) = dom::element("div", "") else { return };
-    for &r in mapping::roles(s) {
+    for &r in s.roles() {
         let cands = mapping::candidates(t, r, c);
         if cands.is_empty() {
             let text = match r {

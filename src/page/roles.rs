@@ -1,90 +1,16 @@
-//! Which columns answer the question: the roles a family needs (the
-//! measurement; two paired columns; a group column and its two levels; an
-//! outcome and the level that counts as a success), sensible first choices,
-//! and the engine's [`Mapping`] built from what the user picked.
+//! Which columns answer the question: for the roles a family's data shape
+//! needs (the registry's [`Shape::roles`]: the measurement; two paired
+//! columns; a group column and its two levels; an outcome and the level
+//! that counts as a success), the candidates, sensible first choices, and
+//! the engine's [`Mapping`] built from what the user picked. The page and
+//! the command line's `--data` both read a file through it.
 //!
 //! Choices are kept by column *name* and level text, so that reading the
 //! file again (another delimiter, decimal mark, missing-value list) keeps
 //! them when the columns are still there.
 
-use crate::engine::design::Family;
+use crate::engine::family::{Role, Shape};
 use crate::engine::table::{self, ColumnKind, Mapping, Table};
-
-/// The shape of the mapping a family needs.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Shape {
-    One,
-    Paired,
-    TwoGroups,
-    Binary,
-    TwoGroupsBinary,
-}
-
-pub fn shape(f: Family) -> Shape {
-    match f {
-        Family::MeanZ | Family::MeanT => Shape::One,
-        Family::PairedT => Shape::Paired,
-        Family::TwoMeansPooled | Family::TwoMeansWelch => Shape::TwoGroups,
-        Family::ProportionExact | Family::ProportionNormal => Shape::Binary,
-        Family::TwoProportions => Shape::TwoGroupsBinary,
-    }
-}
-
-/// A role in the mapping: its radio-group name and its plain question.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum Role {
-    Value,
-    First,
-    Second,
-    Group,
-    Level1,
-    Level2,
-    Outcome,
-    Success,
-}
-
-impl Role {
-    pub fn key(self) -> &'static str {
-        match self {
-            Role::Value => "value",
-            Role::First => "first",
-            Role::Second => "second",
-            Role::Group => "group",
-            Role::Level1 => "level1",
-            Role::Level2 => "level2",
-            Role::Outcome => "outcome",
-            Role::Success => "success",
-        }
-    }
-    pub fn from_key(k: &str) -> Option<Role> {
-        [Role::Value, Role::First, Role::Second, Role::Group, Role::Level1, Role::Level2, Role::Outcome, Role::Success]
-            .into_iter()
-            .find(|r| r.key() == k)
-    }
-    pub fn question(self) -> &'static str {
-        match self {
-            Role::Value => "Which column holds the measurements?",
-            Role::First => "First measurement of each pair (the difference is first − second)",
-            Role::Second => "Second measurement of each pair",
-            Role::Group => "Which column says the group?",
-            Role::Level1 => "Group 1 is",
-            Role::Level2 => "Group 2 is",
-            Role::Outcome => "Which column holds the outcome?",
-            Role::Success => "Which value counts as a success?",
-        }
-    }
-}
-
-/// The roles of a shape, in the order the page asks them.
-pub fn roles(s: Shape) -> &'static [Role] {
-    match s {
-        Shape::One => &[Role::Value],
-        Shape::Paired => &[Role::First, Role::Second],
-        Shape::TwoGroups => &[Role::Value, Role::Group, Role::Level1, Role::Level2],
-        Shape::Binary => &[Role::Outcome, Role::Success],
-        Shape::TwoGroupsBinary => &[Role::Outcome, Role::Success, Role::Group, Role::Level1, Role::Level2],
-    }
-}
 
 /// What the user picked (column names, level texts), role by role.
 #[derive(Debug, Clone, Default, PartialEq)]
@@ -153,7 +79,7 @@ fn success_like(s: &str) -> bool {
 /// two levels, in the order they first appear; a yes-like success).
 pub fn complete(t: &Table, s: Shape, old: &Choice, unit: &str) -> Choice {
     let mut c = Choice::default();
-    for &r in roles(s) {
+    for &r in s.roles() {
         let cands = candidates(t, r, &c);
         if let Some(v) = old.get(r).filter(|v| cands.iter().any(|x| x == v)) {
             c.set(r, v.to_string());

@@ -1,0 +1,764 @@
+//! The family registry: one entry per test family, holding everything that
+//! is said about a family outside its mathematics: its id and plain names,
+//! the named test and approximation, the design fields it takes (label,
+//! unit, range, the rule and its message), the summary-data fields, the
+//! data-file roles and the smallest n.
+//!
+//! The JSON parser (`request`), the design's validation (`design`), the
+//! decision input, the page's form, the data-file mapping and the README's
+//! field table all read it. Adding a family means one [`Entry`] here, its
+//! model (`model`, `decision`) and its tests.
+//!
+//! Architecture invariant: the registry is data. No statistics here, and no
+//! other module spells a family's fields, labels or roles again.
+
+use serde::Serialize;
+
+/// The test families (DEVELOPERS.md, "Families").
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Family {
+    /// One mean, σ known: z statistic.
+    MeanZ,
+    /// One mean, σ unknown: one-sample t.
+    MeanT,
+    /// Paired means: one-sample t on the differences.
+    PairedT,
+    /// Two means, equal variances: pooled t.
+    TwoMeansPooled,
+    /// Two means, unequal variances: Welch t.
+    TwoMeansWelch,
+    /// One proportion, exact binomial.
+    ProportionExact,
+    /// One proportion, normal approximation.
+    ProportionNormal,
+    /// Two proportions, normal approximation with pooled SE under H0.
+    TwoProportions,
+}
+
+/// How a field's text is read on the page (the JSON contract takes numbers).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Input {
+    /// Any number, such as 6.5 or −3.
+    Number,
+    /// A probability or rate: "0.05" or "5%".
+    Rate,
+    /// A whole number (sample sizes, counts).
+    Whole,
+}
+
+/// The rule a design value must meet; the message's rule text comes from
+/// [`Check::rule`], so every place that states it says the same.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Check {
+    /// Any finite number.
+    Finite,
+    /// A finite number > 0.
+    Positive,
+    /// Strictly between 0 and 1.
+    OpenUnit,
+    /// An error-rate limit: strictly between 0 and 0.5.
+    Limit,
+    /// An allocation ratio n2/n1: above 0, at most 100.
+    Ratio,
+    /// A whole number; its range is the design's (`n`) or the data's.
+    Whole,
+}
+
+impl Check {
+    /// The rule in words, as messages state it.
+    pub fn rule(self) -> &'static str {
+        match self {
+            Check::Finite => "a finite number",
+            Check::Positive => "a finite number > 0",
+            Check::OpenUnit => "between 0 and 1 (exclusive)",
+            Check::Limit => "between 0 and 0.5 (exclusive)",
+            Check::Ratio => "between 0 and 100 (n2 = ratio·n1)",
+            Check::Whole => "a whole number",
+        }
+    }
+
+    /// Does `v` meet the rule? (`Whole` checks only wholeness; ranges of
+    /// counts depend on the design and are checked where they are known.)
+    pub fn holds(self, v: f64) -> bool {
+        match self {
+            Check::Finite => v.is_finite(),
+            Check::Positive => v.is_finite() && v > 0.0,
+            Check::OpenUnit => v > 0.0 && v < 1.0,
+            Check::Limit => v > 0.0 && v < 0.5,
+            Check::Ratio => v.is_finite() && v > 0.0 && v <= 100.0,
+            Check::Whole => v.is_finite() && v.fract() == 0.0,
+        }
+    }
+}
+
+/// One field of a design or of summary data.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct Field {
+    /// The JSON name (summary fields without their `data.` prefix).
+    pub key: &'static str,
+    /// The page's input for it (`f-INPUT`); differs from `key` only where a
+    /// family shows the engine's field under a name of its own (a
+    /// proportion's θ0 is the page's `p0`).
+    pub input: &'static str,
+    /// The label on the page; `{u}` is replaced by " (unit)" or nothing.
+    pub label: &'static str,
+    /// What is missing, in words, for the page's "still needed" list.
+    pub needed: &'static str,
+    /// What to give, for the `Missing` error of the JSON contract.
+    pub hint: &'static str,
+    pub read: Input,
+    pub check: Check,
+    pub required: bool,
+}
+
+/// The shape of the data a family decides from, and so the roles a data
+/// file's columns play.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Shape {
+    /// One column of measurements.
+    One,
+    /// Two columns measured on the same units; the differences are first − second.
+    Paired,
+    /// A measurement column and a group column with two levels.
+    TwoGroups,
+    /// An outcome column and the level that counts as a success.
+    Binary,
+    /// An outcome column, its success level, and a group column with two levels.
+    TwoGroupsBinary,
+}
+
+/// A role a data file's column (or one of its levels) plays.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Role {
+    Value,
+    First,
+    Second,
+    Group,
+    Level1,
+    Level2,
+    Outcome,
+    Success,
+}
+
+impl Role {
+    pub const ALL: [Role; 8] =
+        [Role::Value, Role::First, Role::Second, Role::Group, Role::Level1, Role::Level2, Role::Outcome, Role::Success];
+
+    /// The role's name: the page's radio group (`dm-KEY`) and the command
+    /// line's mapping field.
+    pub fn key(self) -> &'static str {
+        match self {
+            Role::Value => "value",
+            Role::First => "first",
+            Role::Second => "second",
+            Role::Group => "group",
+            Role::Level1 => "level1",
+            Role::Level2 => "level2",
+            Role::Outcome => "outcome",
+            Role::Success => "success",
+        }
+    }
+
+    pub fn from_key(k: &str) -> Option<Role> {
+        Role::ALL.into_iter().find(|r| r.key() == k)
+    }
+
+    /// The plain question the page asks for it.
+    pub fn question(self) -> &'static str {
+        match self {
+            Role::Value => "Which column holds the measurements?",
+            Role::First => "First measurement of each pair (the difference is first − second)",
+            Role::Second => "Second measurement of each pair",
+            Role::Group => "Which column says the group?",
+            Role::Level1 => "Group 1 is",
+            Role::Level2 => "Group 2 is",
+            Role::Outcome => "Which column holds the outcome?",
+            Role::Success => "Which value counts as a success?",
+        }
+    }
+
+    /// A column's name (true) or one of a column's levels (false).
+    pub fn is_column(self) -> bool {
+        !matches!(self, Role::Level1 | Role::Level2 | Role::Success)
+    }
+}
+
+impl Shape {
+    /// The roles of a shape, in the order the page asks them.
+    pub fn roles(self) -> &'static [Role] {
+        match self {
+            Shape::One => &[Role::Value],
+            Shape::Paired => &[Role::First, Role::Second],
+            Shape::TwoGroups => &[Role::Value, Role::Group, Role::Level1, Role::Level2],
+            Shape::Binary => &[Role::Outcome, Role::Success],
+            Shape::TwoGroupsBinary => &[Role::Outcome, Role::Success, Role::Group, Role::Level1, Role::Level2],
+        }
+    }
+
+    /// Yes/no outcomes rather than measurements.
+    pub fn binary(self) -> bool {
+        matches!(self, Shape::Binary | Shape::TwoGroupsBinary)
+    }
+}
+
+/// Which group of the page's chooser a family stands in.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Kind {
+    Means,
+    Proportions,
+}
+
+impl Kind {
+    pub fn title(self) -> &'static str {
+        match self {
+            Kind::Means => "Means",
+            Kind::Proportions => "Proportions",
+        }
+    }
+}
+
+/// Everything said about one family.
+#[derive(Debug, Clone, Copy)]
+pub struct Entry {
+    pub family: Family,
+    /// The identifier in JSON input and output.
+    pub id: &'static str,
+    /// A plain description for messages and reports.
+    pub title: &'static str,
+    /// The named test, as a methods section writes it.
+    pub test: &'static str,
+    /// The approximation the test rests on, named (None: exact given the model).
+    pub approximation: Option<&'static str>,
+    /// The page's chooser: its group, its words and their explanation.
+    pub kind: Kind,
+    pub chip: &'static str,
+    pub chip_note: &'static str,
+    /// The design fields, in the order the page shows them.
+    pub design: &'static [Field],
+    /// The effect may be given standardised instead (`d`: θ0 = 0, σ = 1, θ1 = d).
+    pub standardised: bool,
+    /// Two groups (then `ratio` and n2 = ⌈ratio·n1⌉ apply).
+    pub two_groups: bool,
+    /// The statistic is a count (saw-tooth sample sizes).
+    pub discrete: bool,
+    /// Smallest n (per group) for which the statistic is defined.
+    pub n_min: u64,
+    /// The summary-data fields (JSON `data.KEY`, page `f-data-KEY`).
+    pub data: &'static [Field],
+    /// The data-file shape, hence the columns' roles.
+    pub shape: Shape,
+    /// What the estimate is, in words ("the sample mean").
+    pub estimate: &'static str,
+    /// The estimate is in the user's unit (false: a proportion).
+    pub in_unit: bool,
+}
+
+const fn field(key: &'static str, label: &'static str, needed: &'static str, read: Input, check: Check) -> Field {
+    Field { key, input: key, label, needed, hint: needed, read, check, required: true }
+}
+
+const fn hinted(hint: &'static str, f: Field) -> Field {
+    Field { hint, ..f }
+}
+
+const fn optional(f: Field) -> Field {
+    Field { required: false, ..f }
+}
+
+const fn shown_as(input: &'static str, f: Field) -> Field {
+    Field { input, ..f }
+}
+
+/// Fields every design has, in the order the page shows them.
+pub const LIMITS: [Field; 3] = [
+    hinted(
+        "choose the largest type I error rate (false alarm) the context can accept, between 0 and 0.5",
+        field("alpha_max", "Largest false-alarm rate you accept, α limit", "the largest false-alarm rate you accept (α limit)", Input::Rate, Check::Limit),
+    ),
+    hinted(
+        "choose the largest type II error rate (missed effect) the context can accept, between 0 and 0.5",
+        field("beta_max", "Largest miss rate you accept, β limit", "the largest miss rate you accept (β limit)", Input::Rate, Check::Limit),
+    ),
+    optional(field("weight", "Cost weight w", "the cost weight w", Input::Rate, Check::OpenUnit)),
+];
+
+/// The sample size to check (per group for two groups).
+pub const SIZE: Field = optional(field("n", "Sample size you already have", "a sample size", Input::Whole, Check::Whole));
+
+/// The standardised effect, accepted instead of θ0, θ1 and σ where a
+/// family allows it.
+pub const STANDARDISED: Field = field("d", "Standardised effect d", "the standardised effect d", Input::Number, Check::Finite);
+
+const RATIO: Field = optional(field(
+    "ratio",
+    "Size of group 2 for each person in group 1 (1 = equal groups)",
+    "the allocation ratio n2/n1",
+    Input::Number,
+    Check::Ratio,
+));
+
+const ONE_MEAN: [Field; 3] = [
+    field("theta0", "Mean if nothing has changed, θ0{u}", "the mean under H0 (θ0)", Input::Number, Check::Finite),
+    field(
+        "theta1",
+        "Smallest change worth finding, as the mean θ1{u}",
+        "the smallest effect worth finding, as the mean under the alternative (θ1)",
+        Input::Number,
+        Check::Finite,
+    ),
+    field("sigma", "Expected standard deviation of one measurement, σ{u}", "the planning standard deviation (σ)", Input::Number, Check::Positive),
+];
+
+const KNOWN_MEAN: [Field; 3] = [
+    ONE_MEAN[0],
+    ONE_MEAN[1],
+    field("sigma", "Known standard deviation of one measurement, σ{u}", "the known standard deviation (σ)", Input::Number, Check::Positive),
+];
+
+const PAIRED: [Field; 3] = [
+    field("theta0", "Mean difference if nothing has changed, θ0{u}", "the mean difference under H0 (θ0)", Input::Number, Check::Finite),
+    field("theta1", "Smallest mean difference worth finding, θ1{u}", "the smallest mean difference worth finding (θ1)", Input::Number, Check::Finite),
+    field(
+        "sigma",
+        "Expected standard deviation of the differences, σ{u}",
+        "the planning standard deviation of the differences (σ)",
+        Input::Number,
+        Check::Positive,
+    ),
+];
+
+const TWO_THETAS: [Field; 2] = [
+    field(
+        "theta0",
+        "Difference (group 1 − group 2) if nothing has changed, θ0{u}",
+        "the difference of means under H0 (θ0)",
+        Input::Number,
+        Check::Finite,
+    ),
+    field("theta1", "Smallest difference worth finding, θ1{u}", "the smallest difference worth finding (θ1)", Input::Number, Check::Finite),
+];
+
+const POOLED: [Field; 4] = [
+    TWO_THETAS[0],
+    TWO_THETAS[1],
+    field("sigma", "Expected standard deviation within each group, σ{u}", "the planning standard deviation within each group (σ)", Input::Number, Check::Positive),
+    RATIO,
+];
+
+const WELCH: [Field; 5] = [
+    TWO_THETAS[0],
+    TWO_THETAS[1],
+    field("sigma1", "Expected standard deviation in group 1, σ1{u}", "the planning standard deviation of group 1 (σ1)", Input::Number, Check::Positive),
+    field("sigma2", "Expected standard deviation in group 2, σ2{u}", "the planning standard deviation of group 2 (σ2)", Input::Number, Check::Positive),
+    RATIO,
+];
+
+const ONE_PROPORTION: [Field; 2] = [
+    shown_as(
+        "p0",
+        field("theta0", "Proportion if nothing has changed, p0 (e.g. 0.75 or 75%)", "the proportion under H0 (p0)", Input::Rate, Check::OpenUnit),
+    ),
+    shown_as(
+        "p_alt",
+        field(
+            "theta1",
+            "Smallest proportion worth finding, p1",
+            "the smallest proportion worth finding, under the alternative (p1)",
+            Input::Rate,
+            Check::OpenUnit,
+        ),
+    ),
+];
+
+const TWO_PROPORTIONS: [Field; 3] = [
+    field("p1", "Rate in group 1 that would matter, p1 (e.g. 0.30 or 30%)", "the rate in group 1 under the alternative (p1)", Input::Rate, Check::OpenUnit),
+    field(
+        "p2",
+        "Rate in group 2, p2 (the null hypothesis says both are equal)",
+        "the rate in group 2 under the alternative (p2)",
+        Input::Rate,
+        Check::OpenUnit,
+    ),
+    RATIO,
+];
+
+const fn data(key: &'static str, input: &'static str, label: &'static str, needed: &'static str, read: Input) -> Field {
+    let check = if matches!(read, Input::Whole) { Check::Whole } else { Check::Finite };
+    Field { key, input, label, needed, hint: needed, read, check, required: true }
+}
+
+const DATA_Z: [Field; 3] = [
+    data("n", "data.n", "Number of measurements", "the number of measurements", Input::Whole),
+    data("mean", "data.mean", "Mean{u}", "the mean of the data", Input::Number),
+    // Accepted and not used: σ is known. Not shown on the page.
+    optional(data("sd", "data.sd", "Standard deviation{u}", "the standard deviation of the data", Input::Number)),
+];
+
+const DATA_T: [Field; 3] = [DATA_Z[0], DATA_Z[1], data("sd", "data.sd", "Standard deviation{u}", "the standard deviation of the data", Input::Number)];
+
+const DATA_PAIRED: [Field; 3] = [
+    data("n", "data.n", "Number of pairs", "the number of pairs", Input::Whole),
+    data("mean", "data.mean", "Mean of the differences{u}", "the mean of the differences", Input::Number),
+    data("sd", "data.sd", "Standard deviation of the differences{u}", "the standard deviation of the differences", Input::Number),
+];
+
+const DATA_TWO_MEANS: [Field; 6] = [
+    data("n1", "data.n1", "Group 1: number of measurements", "the number of measurements in group 1", Input::Whole),
+    data("mean1", "data.mean1", "Group 1: mean{u}", "the mean of group 1", Input::Number),
+    data("sd1", "data.sd1", "Group 1: standard deviation{u}", "the standard deviation of group 1", Input::Number),
+    data("n2", "data.n2", "Group 2: number of measurements", "the number of measurements in group 2", Input::Whole),
+    data("mean2", "data.mean2", "Group 2: mean{u}", "the mean of group 2", Input::Number),
+    data("sd2", "data.sd2", "Group 2: standard deviation{u}", "the standard deviation of group 2", Input::Number),
+];
+
+const DATA_PROPORTION: [Field; 2] = [
+    data("successes", "data.successes", "Successes", "the number of successes", Input::Whole),
+    data("trials", "data.trials", "Trials", "the number of trials", Input::Whole),
+];
+
+const DATA_TWO_PROPORTIONS: [Field; 4] = [
+    data("successes1", "data.successes1", "Group 1: successes", "the successes in group 1", Input::Whole),
+    data("trials1", "data.trials1", "Group 1: trials", "the trials in group 1", Input::Whole),
+    data("successes2", "data.successes2", "Group 2: successes", "the successes in group 2", Input::Whole),
+    data("trials2", "data.trials2", "Group 2: trials", "the trials in group 2", Input::Whole),
+];
+
+/// The registry, in the order the page offers the families and messages
+/// list them.
+pub const REGISTRY: [Entry; 8] = [
+    Entry {
+        family: Family::MeanZ,
+        id: "mean_z",
+        title: "one mean, known standard deviation (z test)",
+        test: "one-sample z test with known standard deviation",
+        approximation: None,
+        kind: Kind::Means,
+        chip: "One group’s mean, spread known",
+        chip_note: "σ known from long experience (z test)",
+        design: &KNOWN_MEAN,
+        standardised: true,
+        two_groups: false,
+        discrete: false,
+        n_min: 1,
+        data: &DATA_Z,
+        shape: Shape::One,
+        estimate: "the sample mean",
+        in_unit: true,
+    },
+    Entry {
+        family: Family::MeanT,
+        id: "mean_t",
+        title: "one mean, unknown standard deviation (t test)",
+        test: "one-sample t test",
+        approximation: None,
+        kind: Kind::Means,
+        chip: "One group’s mean",
+        chip_note: "against a fixed value; spread estimated from the data (t test)",
+        design: &ONE_MEAN,
+        standardised: true,
+        two_groups: false,
+        discrete: false,
+        n_min: 2,
+        data: &DATA_T,
+        shape: Shape::One,
+        estimate: "the sample mean",
+        in_unit: true,
+    },
+    Entry {
+        family: Family::PairedT,
+        id: "paired_t",
+        title: "paired means (t test on the differences)",
+        test: "paired t test (one-sample t test on the differences)",
+        approximation: None,
+        kind: Kind::Means,
+        chip: "Paired measurements",
+        chip_note: "before and after on the same people (t test on the differences)",
+        design: &PAIRED,
+        standardised: true,
+        two_groups: false,
+        discrete: false,
+        n_min: 2,
+        data: &DATA_PAIRED,
+        shape: Shape::Paired,
+        estimate: "the mean difference",
+        in_unit: true,
+    },
+    Entry {
+        family: Family::TwoMeansPooled,
+        id: "two_means_pooled",
+        title: "two means, equal variances (pooled t test)",
+        test: "two-sample t test, pooled variance",
+        approximation: None,
+        kind: Kind::Means,
+        chip: "Two groups’ means",
+        chip_note: "similar spread in both groups (pooled t test)",
+        design: &POOLED,
+        standardised: true,
+        two_groups: true,
+        discrete: false,
+        n_min: 2,
+        data: &DATA_TWO_MEANS,
+        shape: Shape::TwoGroups,
+        estimate: "the difference of means",
+        in_unit: true,
+    },
+    Entry {
+        family: Family::TwoMeansWelch,
+        id: "two_means_welch",
+        title: "two means, unequal variances (Welch t test)",
+        test: "Welch two-sample t test",
+        approximation: Some("Welch–Satterthwaite degrees of freedom"),
+        kind: Kind::Means,
+        chip: "Two groups’ means, different spreads",
+        chip_note: "Welch t test (approximate degrees of freedom)",
+        design: &WELCH,
+        standardised: false,
+        two_groups: true,
+        discrete: false,
+        n_min: 2,
+        data: &DATA_TWO_MEANS,
+        shape: Shape::TwoGroups,
+        estimate: "the difference of means",
+        in_unit: true,
+    },
+    Entry {
+        family: Family::ProportionExact,
+        id: "proportion_exact",
+        title: "one proportion, exact binomial test",
+        test: "exact binomial test",
+        approximation: None,
+        kind: Kind::Proportions,
+        chip: "One proportion, exact",
+        chip_note: "a count of successes out of n (binomial test)",
+        design: &ONE_PROPORTION,
+        standardised: false,
+        two_groups: false,
+        discrete: true,
+        n_min: 1,
+        data: &DATA_PROPORTION,
+        shape: Shape::Binary,
+        estimate: "the proportion",
+        in_unit: false,
+    },
+    Entry {
+        family: Family::ProportionNormal,
+        id: "proportion_normal",
+        title: "one proportion, normal approximation",
+        test: "one-proportion z test",
+        approximation: Some("normal approximation to the binomial, standard error from p0"),
+        kind: Kind::Proportions,
+        chip: "One proportion, approximate",
+        chip_note: "normal approximation for large n",
+        design: &ONE_PROPORTION,
+        standardised: false,
+        two_groups: false,
+        discrete: false,
+        n_min: 1,
+        data: &DATA_PROPORTION,
+        shape: Shape::Binary,
+        estimate: "the proportion",
+        in_unit: false,
+    },
+    Entry {
+        family: Family::TwoProportions,
+        id: "two_proportions",
+        title: "two proportions, normal approximation",
+        test: "two-proportion z test",
+        approximation: Some("normal approximation, pooled standard error under H0, unpooled under the alternative"),
+        kind: Kind::Proportions,
+        chip: "Two groups’ proportions",
+        chip_note: "normal approximation, pooled under H0",
+        design: &TWO_PROPORTIONS,
+        standardised: false,
+        two_groups: true,
+        discrete: false,
+        n_min: 1,
+        data: &DATA_TWO_PROPORTIONS,
+        shape: Shape::TwoGroupsBinary,
+        estimate: "the difference of proportions",
+        in_unit: false,
+    },
+];
+
+impl Family {
+    /// Every family, in the registry's order.
+    pub const ALL: [Family; REGISTRY.len()] = {
+        let mut all = [Family::MeanZ; REGISTRY.len()];
+        let mut i = 0;
+        while i < REGISTRY.len() {
+            all[i] = REGISTRY[i].family;
+            i += 1;
+        }
+        all
+    };
+
+    /// Every family, in the registry's order.
+    pub fn all() -> impl Iterator<Item = Family> {
+        REGISTRY.iter().map(|e| e.family)
+    }
+
+    /// The family's registry entry.
+    pub fn entry(self) -> &'static Entry {
+        // Every family has exactly one entry (checked by a unit test below);
+        // the fallback is never taken.
+        REGISTRY.iter().find(|e| e.family == self).unwrap_or(&REGISTRY[0])
+    }
+
+    /// The identifier used in JSON input and output.
+    pub fn id(self) -> &'static str {
+        self.entry().id
+    }
+
+    pub fn from_id(id: &str) -> Option<Family> {
+        REGISTRY.iter().find(|e| e.id == id).map(|e| e.family)
+    }
+
+    /// A plain description for messages and reports.
+    pub fn title(self) -> &'static str {
+        self.entry().title
+    }
+
+    pub fn two_groups(self) -> bool {
+        self.entry().two_groups
+    }
+
+    pub fn discrete(self) -> bool {
+        self.entry().discrete
+    }
+
+    /// Smallest n (per group) for which the statistic is defined.
+    pub fn n_min(self) -> u64 {
+        self.entry().n_min
+    }
+
+    /// Every family id, for messages ("one of mean_z, mean_t, ...").
+    pub fn ids() -> String {
+        REGISTRY.iter().map(|e| e.id).collect::<Vec<_>>().join(", ")
+    }
+}
+
+impl Entry {
+    /// The design fields this family accepts: its own, `d` where allowed,
+    /// and the limits.
+    pub fn accepts(&self, key: &str) -> bool {
+        self.design.iter().any(|f| f.key == key) || (self.standardised && key == STANDARDISED.key) || LIMITS.iter().any(|f| f.key == key)
+    }
+
+    /// The design field of this family with this JSON name.
+    pub fn design_field(&self, key: &str) -> Option<&'static Field> {
+        self.design.iter().find(|f| f.key == key)
+    }
+
+    /// The summary-data field with this JSON name (without `data.`).
+    pub fn data_field(&self, key: &str) -> Option<&'static Field> {
+        self.data.iter().find(|f| f.key == key)
+    }
+
+    /// What this family takes, in words, for "does not apply" messages.
+    pub fn takes(&self) -> String {
+        let list = words(self.design.iter().map(|f| f.key));
+        if self.standardised { format!("{} takes {list} (or d instead of theta0, theta1 and sigma)", self.id) } else { format!("{} takes {list}", self.id) }
+    }
+
+    /// The required summary fields in words ("successes and trials").
+    pub fn data_keys(&self) -> String {
+        words(self.data.iter().filter(|f| f.required).map(|f| f.key))
+    }
+}
+
+/// "a, b and c".
+fn words<'a>(items: impl Iterator<Item = &'a str>) -> String {
+    let mut items: Vec<&str> = items.collect();
+    let last = items.pop().unwrap_or_default();
+    if items.is_empty() { last.to_string() } else { format!("{} and {last}", items.join(", ")) }
+}
+
+/// Every design field name the JSON contract knows (the union over the
+/// registry, `d` and the limits), each once, in a stable order: what a
+/// kept design, an exported file or a share link may hold besides
+/// `family` and `alternative`.
+pub fn design_keys() -> Vec<&'static str> {
+    let mut keys: Vec<&'static str> = Vec::new();
+    let all = REGISTRY.iter().flat_map(|e| e.design.iter()).chain([&STANDARDISED]).chain(LIMITS.iter());
+    for f in all {
+        if !keys.contains(&f.key) {
+            keys.push(f.key);
+        }
+    }
+    keys
+}
+
+/// Every summary-data field name over the registry, each once.
+pub fn data_keys() -> Vec<&'static str> {
+    let mut keys: Vec<&'static str> = Vec::new();
+    for f in REGISTRY.iter().flat_map(|e| e.data.iter()) {
+        if !keys.contains(&f.key) {
+            keys.push(f.key);
+        }
+    }
+    keys
+}
+
+/// A design field's static name, whatever family it belongs to.
+pub fn design_key(key: &str) -> Option<&'static str> {
+    design_keys().into_iter().find(|k| *k == key)
+}
+
+/// A label with the unit put in: `{u}` becomes " (days)" or nothing.
+pub fn label(field: &Field, unit: &str) -> String {
+    let u = unit.trim();
+    let u = if u.is_empty() { String::new() } else { format!(" ({u})") };
+    field.label.replace("{u}", &u)
+}
+
+/// The README's table of families and their fields, generated from the
+/// registry (a test checks the README carries exactly this text).
+pub fn fields_table() -> String {
+    let mut out = String::from("| family | test | design fields | summary data (`data`) | data-file roles |\n|---|---|---|---|---|\n");
+    for e in &REGISTRY {
+        let design: Vec<String> = e
+            .design
+            .iter()
+            .map(|f| if f.required { format!("`{}`", f.key) } else { format!("`{}` (optional)", f.key) })
+            .collect();
+        let design = if e.standardised { format!("{}; `d` may replace `theta0`, `theta1`, `sigma`", design.join(", ")) } else { design.join(", ") };
+        let data: Vec<String> = e.data.iter().map(|f| if f.required { format!("`{}`", f.key) } else { format!("`{}` (optional)", f.key) }).collect();
+        let roles: Vec<String> = e.shape.roles().iter().map(|r| format!("`{}`", r.key())).collect();
+        let approx = e.approximation.map_or(String::new(), |a| format!("; {a}"));
+        out.push_str(&format!("| `{}` | {}{} | {} | {} | {} |\n", e.id, e.test, approx, design, data.join(", "), roles.join(", ")));
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn every_family_has_one_entry_and_a_unique_id() {
+        for (i, e) in REGISTRY.iter().enumerate() {
+            assert_eq!(REGISTRY.iter().filter(|x| x.family == e.family).count(), 1, "{}", e.id);
+            assert_eq!(REGISTRY.iter().filter(|x| x.id == e.id).count(), 1, "{}", e.id);
+            assert_eq!(Family::from_id(e.id), Some(e.family));
+            assert_eq!(e.family.entry().id, REGISTRY[i].id);
+        }
+    }
+
+    #[test]
+    fn a_page_input_means_one_engine_field() {
+        // Two families may share an input only for the same JSON field, so
+        // that a value typed for one is read the same way by the other.
+        let all: Vec<&Field> = REGISTRY.iter().flat_map(|e| e.design.iter().chain(e.data.iter())).collect();
+        for a in &all {
+            for b in &all {
+                if a.input == b.input {
+                    assert_eq!(a.key, b.key, "input {} is two fields", a.input);
+                    assert_eq!(a.read, b.read, "input {} is read two ways", a.input);
+                }
+            }
+        }
+    }
+}
