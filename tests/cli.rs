@@ -175,3 +175,114 @@ fn non_utf8_stdin_exits_1() {
     let out = child.wait_with_output().unwrap();
     assert_eq!(out.status.code(), Some(1), "stderr: {}", text(&out.stderr));
 }
+
+fn reference_data(name: &str) -> String {
+    format!("{}/tests/reference/data/{name}", env!("CARGO_MANIFEST_DIR"))
+}
+
+/// NumPy's figures for a file of tests/reference/data (tests/reference/
+/// describe.json, written by gen_describe.py with NumPy 2.4.6).
+fn numpy_groups(file: &str) -> Vec<(u64, f64, f64)> {
+    let path = format!("{}/tests/reference/describe.json", env!("CARGO_MANIFEST_DIR"));
+    let d: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(path).unwrap()).unwrap();
+    let case = d["cases"].as_array().unwrap().iter().find(|c| c["file"] == file).unwrap();
+    case["groups"].as_array().unwrap().iter().map(|g| (g["n"].as_u64().unwrap(), g["mean"].as_f64().unwrap(), g["sd"].as_f64().unwrap())).collect()
+}
+
+fn write_design(name: &str, json: &str) -> String {
+    let dir = std::env::temp_dir().join(format!("tern-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let p = dir.join(name);
+    std::fs::write(&p, json).unwrap();
+    p.to_string_lossy().into_owned()
+}
+
+/// `--data`: the file's groups are read as NumPy reads them, the mapping
+/// named in the design is used (and what was left to the reader is
+/// marked), and the decision is the one the same figures give as summary
+/// data.
+#[test]
+fn decides_from_a_data_file() {
+    let design = r#"{"family": "two_means_welch", "alternative": "greater", "theta0": 0, "theta1": 3, "sigma1": 4, "sigma2": 8,
+        "alpha_max": 0.1, "beta_max": 0.2, "group": "Station", "level1": "Nord", "level2": "Süd"}"#;
+    let path = write_design("wards.json", design);
+    let v = answer_of(&tern(&["run", &path, "--data", &reference_data("two_wards.csv")], None));
+    let groups = v["data_file"]["groups"].as_array().unwrap();
+    for (g, (n, mean, sd)) in groups.iter().zip(numpy_groups("two_wards.csv")) {
+        assert_eq!(g["n"].as_u64(), Some(n));
+        assert!((g["mean"].as_f64().unwrap() - mean).abs() <= 1e-12 * mean.abs(), "{g}");
+        assert!((g["sd"].as_f64().unwrap() - sd).abs() <= 1e-12 * sd, "{g}");
+    }
+    let mapping = &v["data_file"]["mapping"];
+    assert_eq!(mapping[0]["role"], "value");
+    assert_eq!(mapping[0]["value"], "Minuten");
+    assert_eq!(mapping[0]["chosen"], false, "the value column was left to the reader");
+    assert_eq!(mapping[1]["value"], "Station");
+    assert_eq!(mapping[1]["chosen"], true);
+    // The same design with NumPy's figures as summary data decides alike.
+    let g = numpy_groups("two_wards.csv");
+    let with_figures = format!(
+        r#"{{"family": "two_means_welch", "alternative": "greater", "theta0": 0, "theta1": 3, "sigma1": 4, "sigma2": 8, "alpha_max": 0.1, "beta_max": 0.2,
+        "data": {{"n1": {}, "mean1": {}, "sd1": {}, "n2": {}, "mean2": {}, "sd2": {}}}}}"#,
+        g[0].0, g[0].1, g[0].2, g[1].0, g[1].1, g[1].2
+    );
+    let w = answer_of(&tern(&["run"], Some(&with_figures)));
+    assert_eq!(v["decision"]["outcome"], w["decision"]["outcome"]);
+    let (a, b) = (v["decision"]["statistic"].as_f64().unwrap(), w["decision"]["statistic"].as_f64().unwrap());
+    assert!((a - b).abs() <= 1e-10 * b.abs(), "{a} vs {b}");
+}
+
+/// A column or level the file does not have is refused by its field, with
+/// what the file offers; a data file beside summary figures is refused; an
+/// unreadable data file exits 1.
+#[test]
+fn data_file_refusals_name_the_field() {
+    let base = r#""family": "two_means_pooled", "alternative": "greater", "d": 0.5, "alpha_max": 0.1, "beta_max": 0.2"#;
+    let file = reference_data("two_wards.csv");
+    let cases: [(&str, &[&str]); 4] = [
+        (r#""group": "Ward""#, &["group is \"Ward\"", "Station"]),
+        (r#""level1": "Ost""#, &["level1 is \"Ost\"", "Nord", "Süd"]),
+        (r#""success": "yes""#, &["success is not a known field", "value, group, level1, level2"]),
+        (r#""data": {"n1": 3, "mean1": 1, "sd1": 1, "n2": 3, "mean2": 0, "sd2": 1}"#, &["data is summary figures", "data file"]),
+    ];
+    for (extra, expect) in cases {
+        let path = write_design("refused.json", &format!("{{{base}, {extra}}}"));
+        let out = tern(&["run", &path, "--data", &file], None);
+        assert_eq!(out.status.code(), Some(2), "{extra}: {}", text(&out.stdout));
+        let err = text(&out.stderr);
+        for e in expect {
+            assert!(err.contains(e), "{extra}: {err:?} lacks {e:?}");
+        }
+    }
+    let path = write_design("ok.json", &format!("{{{base}}}"));
+    let out = tern(&["run", &path, "--data", "/nonexistent/file.csv"], None);
+    assert_eq!(out.status.code(), Some(1));
+    assert!(text(&out.stderr).contains("cannot read /nonexistent/file.csv"));
+    let out = tern(&["run", &path, "--data"], None);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(text(&out.stderr).contains("--data needs a file name"));
+}
+
+/// A file's bad cells come back located (row as the user sees it, column,
+/// verbatim text), and `exclude_rows` leaves their rows out.
+#[test]
+fn data_file_problems_are_located_and_can_be_left_out() {
+    let csv = "patient,days\n1,4.5\n2,5.1\n3,n/a?\n4,6.0\n5,4.4\n";
+    let dir = std::env::temp_dir().join(format!("tern-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join("stays.csv");
+    std::fs::write(&file, csv).unwrap();
+    let file = file.to_string_lossy().into_owned();
+    let design = r#"{"family": "mean_t", "alternative": "greater", "theta0": 4, "theta1": 5, "sigma": 1, "alpha_max": 0.1, "beta_max": 0.2, "value": "days"}"#;
+    let v = answer_of(&tern(&["run", &write_design("stays.json", design), "--data", &file], None));
+    let p = &v["data_file"]["table"]["problems"];
+    assert_eq!(p["total"], 1);
+    assert_eq!(p["shown"][0]["row"], 4, "line 4 of the file holds patient 3");
+    assert_eq!(p["shown"][0]["column"], "days");
+    assert_eq!(p["shown"][0]["value"], "n/a?");
+    assert_eq!(v["data_file"]["groups"][0]["n"], 4);
+    let design = design.replace(r#""value": "days""#, r#""value": "days", "exclude_rows": [4, 6]"#);
+    let v = answer_of(&tern(&["run", &write_design("stays2.json", &design), "--data", &file], None));
+    assert_eq!(v["data_file"]["excluded"], 2);
+    assert_eq!(v["data_file"]["groups"][0]["n"], 3);
+}

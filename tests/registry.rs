@@ -12,7 +12,7 @@ use tern::engine::family::{Check, Entry, Field, REGISTRY, Role, Shape, fields_ta
 use tern::engine::request::{self, Ask};
 use tern::engine::table::{ReadOptions, read_table, summarise};
 use tern::page::form::{self, FormText};
-use tern::page::roles::{Choice, complete, to_mapping};
+use tern::engine::table::roles::{Choice, complete, to_mapping};
 
 /// A planning value for a design field, on the `greater` side.
 fn planning(f: &Field) -> f64 {

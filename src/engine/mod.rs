@@ -18,4 +18,5 @@ pub mod decision;
 pub mod curves;
 pub mod inverse;
 pub mod request;
+pub mod data_file;
 pub mod table;

@@ -44,6 +44,8 @@ pub enum RequestError {
     NotNumber { field: String, shown: String },
     #[error("{field} is {shown}, but must be {rule}")]
     BadValue { field: String, shown: String, rule: String },
+    #[error("the data file {file}: {message}")]
+    DataFile { file: String, message: String },
     #[error(transparent)]
     Design(#[from] DesignError),
     #[error(transparent)]

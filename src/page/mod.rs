@@ -7,4 +7,3 @@
 //! and JSON stays at the edges (command line, files, links).
 
 pub mod form;
-pub mod roles;

@@ -29,6 +29,7 @@ mod columns;
 mod delimited;
 mod mapping;
 mod notes;
+pub mod roles;
 mod sniff;
 mod summary;
 mod workbook;

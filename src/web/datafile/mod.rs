@@ -20,7 +20,7 @@ use crate::engine::design::Family;
 use crate::engine::table::{self, DataSummary, DecimalMark, ReadOptions, Table, TableBuilder};
 use fill::Fill;
 use crate::engine::family::{Role, Shape};
-use crate::page::roles::{self as mapping, Choice};
+use crate::engine::table::roles::{self as mapping, Choice};
 use std::cell::RefCell;
 use std::rc::Rc;
 use wasm_bindgen::JsCast;

@@ -12,7 +12,7 @@ use super::super::charts::quantile::{self, QuantileGroup, QuantileView};
 use super::super::charts::short;
 use super::super::{canvas, dom};
 use crate::engine::family::{Role, Shape};
-use crate::page::roles::{self as mapping, Choice};
+use crate::engine::table::roles::{self as mapping, Choice};
 use crate::engine::table::{self, ColumnKind, DataSummary, DecimalMark, Format, ReadOptions, Table};
 use web_sys::Element;
 

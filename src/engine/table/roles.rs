@@ -10,7 +10,7 @@
 //! them when the columns are still there.
 
 use crate::engine::family::{Role, Shape};
-use crate::engine::table::{self, ColumnKind, Mapping, Table};
+use super::{self as table, ColumnKind, Mapping, Table};
 
 /// What the user picked (column names, level texts), role by role.
 #[derive(Debug, Clone, Default, PartialEq)]
