@@ -186,7 +186,7 @@ fn check_region(ck: &mut Checker, case: &str, what: &str, got: &Rule, want: Opti
 #[test]
 fn families_match_the_reference() {
     let checked = check_file("families.json");
-    assert!(checked >= 200, "only {checked} reference cases");
+    assert!(checked >= 678, "only {checked} reference cases: the file shrank (678 on 2026-12-03)");
 }
 
 /// The exact binomial at n ≈ 31,000 and 62,000 (p0 = .5 against .51, both
