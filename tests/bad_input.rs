@@ -329,10 +329,10 @@ fn every_bad_input_is_refused_with_a_message() {
                         failures.push(format!("{}: message lacks {frag:?}: {msg}", c.name));
                     }
                 }
-                if let Some(exact) = c.exact {
-                    if msg != exact {
-                        failures.push(format!("{}: message is {msg:?}, expected exactly {exact:?}", c.name));
-                    }
+                if let Some(exact) = c.exact
+                    && msg != exact
+                {
+                    failures.push(format!("{}: message is {msg:?}, expected exactly {exact:?}", c.name));
                 }
             }
         }
@@ -380,11 +380,15 @@ fn valid_edge_designs_are_answered() {
                 if v.get("sample_size").is_none() {
                     failures.push(format!("{name}: no sample_size in the answer"));
                 }
-                // searched_up_to is the largest n1 whose n2 stays admissible.
-                let up_to = v["sample_size"]["searched_up_to"].as_u64().unwrap_or(0);
-                let ratio = v["design"]["ratio"].as_f64().unwrap_or(1.0);
-                if (up_to as f64) * ratio > 1e7 * (1.0 + 1e-12) {
-                    failures.push(format!("{name}: searched_up_to {up_to} with ratio {ratio} exceeds n2 = 10000000"));
+                // searched_up_to is the largest n1 whose n2 stays admissible;
+                // both it and the design's ratio are always in the answer.
+                match (v["sample_size"]["searched_up_to"].as_u64(), v["design"]["ratio"].as_f64()) {
+                    (Some(up_to), Some(ratio)) => {
+                        if (up_to as f64) * ratio > 1e7 * (1.0 + 1e-12) {
+                            failures.push(format!("{name}: searched_up_to {up_to} with ratio {ratio} exceeds n2 = 10000000"));
+                        }
+                    }
+                    (up_to, ratio) => failures.push(format!("{name}: the answer lacks sample_size.searched_up_to ({up_to:?}) or design.ratio ({ratio:?})")),
                 }
             }
         }

@@ -1,19 +1,42 @@
 //! Student t and noncentral t against the mpmath references in
 //! `tests/reference/t_dist.json` (written by `gen_t_dist.py`).
 //!
-//! Tolerances are the ones promised in the distributions' documentation:
-//! pdf, cdf and sf within 1e-10 relative wherever the reference value is a
-//! normal f64 (down to 1e-300, so the far tails are included); ln_pdf within
-//! 1e-12 relative or 1e-10 absolute; quantiles within 1e-11 relative.
+//! Tolerances: about 100 × the worst error observed (2026-12-03, five runs,
+//! identical), rounded up to 1, 2 or 5 in the leading digit but never
+//! looser than before (nct pdf, cdf, sf and quantiles keep 1e-10 and
+//! 1e-11, about 100 × and 80 ×), per
+//! distribution and function (`tolerance`); the run prints the worst error
+//! per function and region with its case (`--nocapture`), so the margin can
+//! be read off. pdf, cdf and sf are checked wherever the reference value is
+//! a normal f64 (down to 1e-300, so the far tails are included), and below
+//! 1e-300 (76 values) Tern's must be below 1e-299 too; ln_pdf by
+//! |error| / max(1, |ln_pdf|) (relative where |ln_pdf| ≥ 1, absolute
+//! below); quantiles relative (absolute 1e-14 where the quantile is 0).
+//!
+//! Worst observed: nct pdf 1.0e-12, cdf and sf 8.9e-13, ln_pdf 4.4e-14,
+//! quantiles 1.2e-13; t pdf 1.4e-13, cdf and sf 2.2e-13, ln_pdf 2.2e-16,
+//! quantiles 5.7e-14. Before 2026-12-03 the tolerances were 1e-10 (pdf,
+//! cdf, sf), 1e-12 relative or 1e-10 absolute (ln_pdf) and 1e-11
+//! (quantiles) for both.
 
 use std::collections::BTreeMap;
 
 use tern::engine::dist::{Continuous, NoncentralT, StudentT};
 
-const REL: f64 = 1e-10;
-const LN_REL: f64 = 1e-12;
-const LN_ABS: f64 = 1e-10;
-const Q_REL: f64 = 1e-11;
+/// Tolerance for `function` ("pdf", "cdf", "sf", "ln_pdf", "quantile",
+/// "quantile_upper") of `tag` ("t" or "nct").
+fn tolerance(tag: &str, function: &str) -> f64 {
+    match (tag, function) {
+        ("nct", "pdf" | "cdf" | "sf") => 1e-10,
+        ("nct", "ln_pdf") => 5e-12,
+        ("nct", _) => 1e-11,
+        ("t", "pdf") => 2e-11,
+        ("t", "cdf" | "sf") => 5e-11,
+        ("t", "ln_pdf") => 5e-14,
+        ("t", _) => 1e-11,
+        other => panic!("no tolerance for {other:?}"),
+    }
+}
 
 fn num(v: &serde_json::Value) -> f64 {
     match v {
@@ -40,9 +63,11 @@ impl Worst {
         }
     }
     fn print(&self, title: &str) {
-        println!("{title}");
+        println!("{title} (tolerance in brackets)");
         for (k, (e, c)) in &self.0 {
-            println!("  {k:<34} {e:9.2e}  at {c}");
+            let mut words = k.split(' ');
+            let tol = tolerance(words.next().unwrap_or(""), words.next().unwrap_or(""));
+            println!("  {k:<24} {e:9.2e}  [{tol:.0e}]  at {c}");
         }
     }
 }
@@ -91,20 +116,23 @@ fn check_all(
         if want.is_normal() && want >= 1e-300 {
             let e = rel(got, want);
             worst.note(format!("{tag} {f} {reg}"), e, &name);
-            if e.is_nan() || e > REL {
+            if e.is_nan() || e > tolerance(tag, f) {
                 bad.push(format!("{f} of {name}: {got:e} vs {want:e} (rel {e:.2e})"));
             }
+        } else if !((0.0..1e-299).contains(&got) && (0.0..1e-299).contains(&want)) {
+            // A reference below 1e-300 is not checked for accuracy, only
+            // that Tern's value is as tiny (and not negative or NaN).
+            bad.push(format!("{f} of {name}: {got:e}, reference {want:e} is below 1e-300"));
         }
     };
     one("pdf", d.pdf(x), pdf);
     one("cdf", d.cdf(x), cdf);
     one("sf", d.sf(x), sf);
     let got = d.ln_pdf(x);
-    let e_abs = (got - ln_pdf).abs();
-    let e_rel = rel(got, ln_pdf);
-    worst.note(format!("{tag} ln_pdf (min of rel, abs) {reg}"), e_rel.min(e_abs), &name);
-    if !(e_rel.is_finite() && e_rel <= LN_REL || e_abs <= LN_ABS) {
-        bad.push(format!("ln_pdf of {name}: {got} vs {ln_pdf}"));
+    let e = if got == ln_pdf { 0.0 } else { (got - ln_pdf).abs() / ln_pdf.abs().max(1.0) };
+    worst.note(format!("{tag} ln_pdf {reg}"), e, &name);
+    if e.is_nan() || e > tolerance(tag, "ln_pdf") {
+        bad.push(format!("ln_pdf of {name}: {got} vs {ln_pdf} (error {e:.2e})"));
     }
 }
 
@@ -167,7 +195,7 @@ fn quantiles_match_mpmath() {
                     let e = if x == 0.0 { q.abs() } else { rel(q, x) };
                     let tail = if p < 1e-20 { "far" } else { "near" };
                     worst.note(format!("{tag} {fname} {tail}"), e, &name);
-                    if e.is_nan() || (e > Q_REL && !(x == 0.0 && e <= 1e-14)) {
+                    if e.is_nan() || (e > tolerance(tag, fname) && !(x == 0.0 && e <= 1e-14)) {
                         bad.push(format!(
                             "{tag} {fname} {name}: {q:e} vs {x:e} (rel {e:.2e})"
                         ));
