@@ -8,7 +8,6 @@
 //! panic hook tells the user so in the page.
 
 mod canvas;
-pub mod charts;
 mod datafile;
 mod demo;
 mod dom;
@@ -19,7 +18,7 @@ mod saved;
 mod view;
 
 use crate::engine::request::{self, Answer, RequestError};
-use charts::prep::{self, Views};
+use crate::page::charts::prep::{self, Views};
 use serde::Serialize;
 use serde_json::{Map, Value};
 use std::cell::RefCell;
