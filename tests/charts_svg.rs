@@ -12,6 +12,7 @@
 //! look at (`cargo test --test charts_svg`, then open the files).
 
 use serde_json::Value;
+use tern::engine::evaluate::evaluate;
 use tern::engine::request::{self, Answer};
 use tern::engine::table::{self, Mapping, ReadOptions};
 use tern::page::charts::prep::{self, DataViews, Views};
@@ -182,4 +183,25 @@ fn data_charts_are_svg_with_their_labels() {
         check(name, &texts(name, text, svg::DATA_SIZE), &expected(name));
     }
     write_for_a_person(&charts);
+}
+
+/// One verdict: the chart of α*, β* against n shows the engine's own
+/// verdict at every n (the one `evaluate` gives), and its table says the
+/// same; nothing in the charts compares the errors with the limits again.
+#[test]
+fn by_n_shows_the_engines_verdict() {
+    let answer = demo_answer();
+    let views = demo_views(&answer);
+    let design = &answer.design;
+    assert!(!views.by_n.points.is_empty());
+    for p in &views.by_n.points {
+        let e = evaluate(design, p.n as u64).expect("the demo evaluates at every charted n");
+        assert_eq!(p.conclusive, e.conclusive, "n = {}", p.n);
+    }
+    // Not vacuous: the demo's chart runs from inconclusive to conclusive.
+    assert!(views.by_n.points.iter().any(|p| p.conclusive) && views.by_n.points.iter().any(|p| !p.conclusive));
+    let table = tern::page::charts::table::by_n(&views.by_n);
+    let yes = table.matches("<td>yes</td>").count();
+    let no = table.matches("<td>no</td>").count();
+    assert!(yes > 0 && no > 0, "the demo's table has both verdicts: {table}");
 }

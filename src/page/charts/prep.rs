@@ -44,10 +44,21 @@ pub struct SamplingView {
     pub h1_centre: f64,
 }
 
+/// α* and β* at one n, with the engine's verdict there.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ByNPoint {
+    pub n: f64,
+    pub alpha: f64,
+    pub beta: f64,
+    /// From the engine (`curves::ByN::conclusive`), never recomputed here.
+    pub conclusive: bool,
+}
+
 /// α* and β* against n.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ByNView {
-    pub points: Vec<(f64, f64, f64)>,
+    /// Sorted by n.
+    pub points: Vec<ByNPoint>,
     pub alpha_max: f64,
     pub beta_max: f64,
     /// The smallest conclusive n, if found.
@@ -222,7 +233,12 @@ pub fn views(design: &Design, at: &Evaluation, curves: &Curves, youden_n: Option
         unit: unit.clone(),
     };
     let by_n = ByNView {
-        points: curves.by_n.iter().map(|p| (p.n1 as f64, p.alpha, p.beta)).filter(|p| p.1.is_finite() && p.2.is_finite()).collect(),
+        points: curves
+            .by_n
+            .iter()
+            .map(|p| ByNPoint { n: p.n1 as f64, alpha: p.alpha, beta: p.beta, conclusive: p.conclusive })
+            .filter(|p| p.alpha.is_finite() && p.beta.is_finite())
+            .collect(),
         alpha_max: design.alpha_max,
         beta_max: design.beta_max,
         youden_n: youden_n.map(|n| n as f64),
