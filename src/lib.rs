@@ -2,12 +2,15 @@
 //!
 //! The crate has two worlds. [`engine`] is pure Rust: numbers and strings in,
 //! plain data out, no I/O and no web types, so `cargo test` exercises all of it
-//! natively. The web layer (compiled only for `wasm32`) is a thin shell over it.
+//! natively. The page is split in two: [`page`], the page model (the charts
+//! and what they draw), compiles natively with no web type, and the web layer
+//! (compiled only for `wasm32`) is a thin shell of DOM, events and canvas
+//! over both.
 
 pub mod engine;
 
-/// The page model: form reading, messages, data-file roles (and the charts):
-/// natively compiled and tested, no web types.
+/// The page model: form reading, messages and the charts, natively
+/// compiled and tested, no web types.
 pub mod page;
 
 /// The page: DOM, events and canvas charts over the engine. Compiled only

@@ -8,7 +8,7 @@
 
 use super::design::Design;
 use super::dist::{Continuous, Discrete};
-use super::evaluate::{EvaluateError, Evaluation, solve};
+use super::evaluate::{EvaluateError, Evaluation, solve, within};
 use super::model::Sampling;
 use super::threshold::{Alternative, ContinuousCut, DiscreteCut, continuous_errors, discrete_errors};
 use serde::Serialize;
@@ -34,12 +34,16 @@ pub struct ErrorPoint {
     pub beta: f64,
 }
 
-/// α* and β* at one n.
+/// α* and β* at one n, with the verdict there.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct ByN {
     pub n1: u64,
     pub alpha: f64,
     pub beta: f64,
+    /// The design is conclusive at this n, as `evaluate::within` decides:
+    /// the charts show this flag and never compare the errors with the
+    /// limits themselves.
+    pub conclusive: bool,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -162,7 +166,7 @@ fn by_n(design: &Design, n_hi: u64) -> Result<Vec<ByN>, EvaluateError> {
     ns.into_iter()
         .map(|n| {
             let (_, e, _) = solve(&design.model(n)?)?;
-            Ok(ByN { n1: n, alpha: e.alpha, beta: e.beta })
+            Ok(ByN { n1: n, alpha: e.alpha, beta: e.beta, conclusive: within(design, &e) })
         })
         .collect()
 }

@@ -3,8 +3,8 @@
 //! plotters-canvas (through `PageCanvas`), and put the same numbers in the
 //! chart's table.
 
-use super::charts::prep::Views;
-use super::charts::{self, DrawResult, Look, by_n, prob, sampling, short, table, total_error, tradeoff};
+use crate::page::charts::prep::Views;
+use crate::page::charts::{self, DrawResult, Look, by_n, prob, sampling, short, table, total_error, tradeoff};
 use super::dom;
 use plotters::coord::Shift;
 use plotters::prelude::*;

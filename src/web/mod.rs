@@ -8,7 +8,6 @@
 //! panic hook tells the user so in the page.
 
 mod canvas;
-pub mod charts;
 mod datafile;
 mod demo;
 mod dom;
@@ -19,8 +18,8 @@ mod saved;
 mod view;
 
 use crate::engine::request;
+use crate::page::charts::prep::{self, Views};
 use crate::page::form as page_form;
-use charts::prep::{self, Views};
 use serde::Serialize;
 use serde_json::Value;
 use std::cell::RefCell;

@@ -2,7 +2,7 @@
 //! given n, and what is still missing. Plain sentences built from the
 //! engine's answer; the engine's own sentences are shown as they are.
 
-use super::charts::{prob, short};
+use crate::page::charts::{prob, short};
 use super::dom::{self, escape};
 use crate::engine::decision::Outcome;
 use crate::engine::design::Family;

@@ -18,6 +18,7 @@ mod show;
 use super::{dom, listen};
 use crate::engine::design::Family;
 use crate::engine::table::{self, DataSummary, DecimalMark, ReadOptions, Table, TableBuilder};
+use crate::page::charts::prep::{DataViews, data_views};
 use fill::Fill;
 use crate::engine::family::{Role, Shape};
 use crate::engine::table::roles::{self as mapping, Choice};
@@ -57,7 +58,7 @@ struct DataState {
     /// Leave out the rows with problems.
     exclude: bool,
     summary: Option<Rc<DataSummary>>,
-    charts: Option<Rc<show::ChartViews>>,
+    charts: Option<Rc<DataViews>>,
     fill: Fill,
 }
 
@@ -408,7 +409,7 @@ fn resummarise(and_recompute: bool) {
     match outcome {
         Ok((sh, sum, values)) => {
             let t0 = dom::now_ms();
-            let views = values.map(|v| Rc::new(show::chart_views(&sum, &v, sh, &unit())));
+            let views = values.map(|v| Rc::new(data_views(&sum, &v, sh == Shape::Paired, &unit())));
             dom::set_attr("app", "data-chart-prep-ms", Some(&format!("{:.1}", dom::now_ms() - t0)));
             show::summary(&sum, sh);
             let sum = Rc::new(sum);

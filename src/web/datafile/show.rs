@@ -7,9 +7,8 @@
 //! `dom::element`/`dom::text_table`; markup is only ever built from our own
 //! constant strings.
 
-use super::super::charts::histogram::{self, HistogramGroup, HistogramView};
-use super::super::charts::quantile::{self, QuantileGroup, QuantileView};
-use super::super::charts::short;
+use crate::page::charts::prep::DataViews;
+use crate::page::charts::{histogram, quantile, short};
 use super::super::{canvas, dom};
 use crate::engine::family::{Role, Shape};
 use crate::engine::table::roles::{self as mapping, Choice};
@@ -353,55 +352,8 @@ pub fn summary_message(text: &str) {
     }
 }
 
-/// The two charts' views.
-pub struct ChartViews {
-    pub histogram: HistogramView,
-    pub quantile: QuantileView,
-}
-
-pub fn chart_views(s: &DataSummary, values: &[Vec<f64>], sh: Shape, unit: &str) -> ChartViews {
-    let u = if unit.trim().is_empty() { String::new() } else { format!(" ({})", unit.trim()) };
-    let what = if sh == Shape::Paired { "difference" } else { "value" };
-    let mut hist = Vec::new();
-    let mut qq = Vec::new();
-    let mut rule = String::new();
-    for (i, v) in values.iter().enumerate() {
-        let g = s.groups.get(i);
-        let label = g.map_or_else(|| format!("group {}", i + 1), |g| g.label.clone());
-        let mean = g.map_or(f64::NAN, |g| g.mean);
-        let sd = g.and_then(|g| g.sd).unwrap_or(f64::NAN);
-        let h = table::histogram(v);
-        rule = h.rule.to_string();
-        hist.push(HistogramGroup { label: label.clone(), edges: h.edges, counts: h.counts, mean, sd, n: v.len() });
-        qq.push(QuantileGroup { label, points: thin(table::normal_quantile_points(v), QQ_DRAWN), mean, sd });
-    }
-    ChartViews {
-        histogram: HistogramView { groups: hist, x_label: format!("{what}{u}"), rule },
-        quantile: QuantileView {
-            groups: qq,
-            y_label: format!("{what}{u}"),
-            positions: "Blom’s plotting positions (i − 3/8)/(n + 1/4)".into(),
-        },
-    }
-}
-
-/// Points of a quantile plot drawn per group: more are indistinguishable on
-/// a chart a few hundred pixels wide, and each costs drawing time.
-const QQ_DRAWN: usize = 400;
-
-/// At most `k` points spread evenly by rank, keeping both ends.
-fn thin(points: Vec<(f64, f64)>, k: usize) -> Vec<(f64, f64)> {
-    if points.len() <= k || k < 2 {
-        return points;
-    }
-    let last = points.len() - 1;
-    let mut idx: Vec<usize> = (0..k).map(|i| i * last / (k - 1)).collect();
-    idx.dedup();
-    idx.into_iter().map(|i| points[i]).collect()
-}
-
 /// Draw both charts (or blank them), with their tables.
-pub fn charts(v: Option<&ChartViews>) {
+pub fn charts(v: Option<&DataViews>) {
     dom::set_hidden("data-charts", v.is_none());
     let Some(v) = v else {
         dom::replace("table-histogram", None);

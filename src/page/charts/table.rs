@@ -66,7 +66,7 @@ pub fn sampling(v: &SamplingView) -> String {
 pub fn by_n(v: &ByNView) -> String {
     let mut idx = spread(v.points.len(), 10);
     for target in [v.youden_n, Some(v.shown_n)].into_iter().flatten() {
-        if let Some(i) = v.points.iter().position(|p| (p.0 - target).abs() < 0.5) {
+        if let Some(i) = v.points.iter().position(|p| (p.n - target).abs() < 0.5) {
             idx.push(i);
         }
     }
@@ -76,8 +76,7 @@ pub fn by_n(v: &ByNView) -> String {
         .into_iter()
         .map(|i| {
             let p = v.points[i];
-            let ok = p.1 <= v.alpha_max && p.2 <= v.beta_max;
-            vec![short(p.0), prob(p.1), prob(p.2), if ok { "yes".into() } else { "no".into() }]
+            vec![short(p.n), prob(p.alpha), prob(p.beta), if p.conclusive { "yes".into() } else { "no".into() }]
         })
         .collect();
     let cap = format!("α* and β* against n (limits: α {}, β {})", prob(v.alpha_max), prob(v.beta_max));

@@ -1,6 +1,6 @@
-//! The four charts of "See why", as drawing code generic over a plotters
-//! [`DrawingBackend`]: the page draws them on canvas, and the same functions
-//! can draw SVG for a report.
+//! The four charts of "See why" and the data file's two, as drawing code
+//! generic over a plotters [`DrawingBackend`]: the page draws them on
+//! canvas, and natively the same functions draw SVG (`svg`).
 //!
 //! Architecture invariant: a chart function knows nothing of the DOM or the
 //! engine's internals. It takes a plain view (`prep`), a [`Look`] (palette
@@ -17,6 +17,8 @@ pub mod histogram;
 pub mod prep;
 pub mod quantile;
 pub mod sampling;
+#[cfg(not(target_arch = "wasm32"))]
+pub mod svg;
 pub mod table;
 pub mod total_error;
 pub mod tradeoff;

@@ -23,9 +23,9 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, v: &ByNView, look
         items.push((Glyph::Dashed(INK), format!("smallest conclusive n = {}", short(n))));
     }
     let plot = legend(area, &items, look)?;
-    let lo = v.points.first().map_or(1.0, |p| p.0).max(1.0);
-    let hi = v.points.last().map_or(10.0, |p| p.0).max(lo * 1.5);
-    let ytop = v.points.iter().flat_map(|p| [p.1, p.2]).chain([v.alpha_max, v.beta_max]).fold(0.0_f64, f64::max);
+    let lo = v.points.first().map_or(1.0, |p| p.n).max(1.0);
+    let hi = v.points.last().map_or(10.0, |p| p.n).max(lo * 1.5);
+    let ytop = v.points.iter().flat_map(|p| [p.alpha, p.beta]).chain([v.alpha_max, v.beta_max]).fold(0.0_f64, f64::max);
     let ytop = if ytop.is_finite() && ytop > 0.0 { (ytop * 1.08).min(1.0) } else { 0.5 };
     let mut chart = ChartBuilder::on(&plot)
         .margin_left(look.px(6.0))
@@ -54,22 +54,22 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, v: &ByNView, look
         })
         .y_label_formatter(&|y| short(*y))
         .draw()?;
-    // Conclusive stretches, one rectangle per run of conclusive points; each
-    // point's share reaches halfway to its neighbours (in log n).
-    let ok = |p: &(f64, f64, f64)| p.1 <= v.alpha_max && p.2 <= v.beta_max;
+    // Conclusive stretches (the engine's verdict at each n), one rectangle
+    // per run of conclusive points; each point's share reaches halfway to
+    // its neighbours (in log n).
     let edge = |i: usize, right: bool| {
-        let p = v.points[i].0;
+        let p = v.points[i].n;
         match (right, i) {
             (false, 0) => p,
-            (false, _) => (p * v.points[i - 1].0).sqrt(),
+            (false, _) => (p * v.points[i - 1].n).sqrt(),
             (true, _) if i + 1 == v.points.len() => p,
-            (true, _) => (p * v.points[i + 1].0).sqrt(),
+            (true, _) => (p * v.points[i + 1].n).sqrt(),
         }
     };
     let mut bands = Vec::new();
     let mut start: Option<usize> = None;
     for i in 0..=v.points.len() {
-        let inside = i < v.points.len() && ok(&v.points[i]);
+        let inside = v.points.get(i).is_some_and(|p| p.conclusive);
         match (inside, start) {
             (true, None) => start = Some(i),
             (false, Some(s0)) => {
@@ -88,9 +88,9 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, v: &ByNView, look
         chart.draw_series(dotted(H0, v.alpha_max))?;
         chart.draw_series(dotted(H1, v.beta_max))?;
     }
-    chart.draw_series(LineSeries::new(v.points.iter().map(|p| (p.0, p.1)), H0.stroke_width(look.width(2.5))))?;
+    chart.draw_series(LineSeries::new(v.points.iter().map(|p| (p.n, p.alpha)), H0.stroke_width(look.width(2.5))))?;
     chart.draw_series(DashedLineSeries::new(
-        v.points.iter().map(|p| (p.0, p.2)),
+        v.points.iter().map(|p| (p.n, p.beta)),
         look.px(7.0),
         look.px(5.0),
         H1.stroke_width(look.width(2.5)),

@@ -11,8 +11,11 @@ use crate::engine::design::{Design, Family};
 use crate::engine::dist::Continuous;
 use crate::engine::evaluate::{Evaluation, Rule};
 use crate::engine::model::Sampling;
+use crate::engine::table::{self, DataSummary};
 use crate::engine::threshold::Alternative;
 
+use super::histogram::{HistogramGroup, HistogramView};
+use super::quantile::{QuantileGroup, QuantileView};
 use super::short;
 
 /// The two sampling curves with the threshold.
@@ -41,10 +44,21 @@ pub struct SamplingView {
     pub h1_centre: f64,
 }
 
+/// α* and β* at one n, with the engine's verdict there.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ByNPoint {
+    pub n: f64,
+    pub alpha: f64,
+    pub beta: f64,
+    /// From the engine (`curves::ByN::conclusive`), never recomputed here.
+    pub conclusive: bool,
+}
+
 /// α* and β* against n.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ByNView {
-    pub points: Vec<(f64, f64, f64)>,
+    /// Sorted by n.
+    pub points: Vec<ByNPoint>,
     pub alpha_max: f64,
     pub beta_max: f64,
     /// The smallest conclusive n, if found.
@@ -219,7 +233,12 @@ pub fn views(design: &Design, at: &Evaluation, curves: &Curves, youden_n: Option
         unit: unit.clone(),
     };
     let by_n = ByNView {
-        points: curves.by_n.iter().map(|p| (p.n1 as f64, p.alpha, p.beta)).filter(|p| p.1.is_finite() && p.2.is_finite()).collect(),
+        points: curves
+            .by_n
+            .iter()
+            .map(|p| ByNPoint { n: p.n1 as f64, alpha: p.alpha, beta: p.beta, conclusive: p.conclusive })
+            .filter(|p| p.alpha.is_finite() && p.beta.is_finite())
+            .collect(),
         alpha_max: design.alpha_max,
         beta_max: design.beta_max,
         youden_n: youden_n.map(|n| n as f64),
@@ -259,4 +278,56 @@ pub fn views(design: &Design, at: &Evaluation, curves: &Curves, youden_n: Option
     };
     let total = TotalErrorView { points, minimum: (thr(curves.youden.threshold), at.alpha + at.beta), x_label, unit };
     Views { sampling, by_n, tradeoff, total }
+}
+
+/// The two charts of a data file: a histogram and a normal quantile plot
+/// per group.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DataViews {
+    pub histogram: HistogramView,
+    pub quantile: QuantileView,
+}
+
+/// Build the data file's views from its summary and the values of each
+/// group (`table::group_values`, in the summary's group order). `paired`:
+/// the values are paired differences, which the axis says.
+pub fn data_views(s: &DataSummary, values: &[Vec<f64>], paired: bool, unit: &str) -> DataViews {
+    let u = if unit.trim().is_empty() { String::new() } else { format!(" ({})", unit.trim()) };
+    let what = if paired { "difference" } else { "value" };
+    let mut hist = Vec::new();
+    let mut qq = Vec::new();
+    let mut rule = String::new();
+    for (i, v) in values.iter().enumerate() {
+        let g = s.groups.get(i);
+        let label = g.map_or_else(|| format!("group {}", i + 1), |g| g.label.clone());
+        let mean = g.map_or(f64::NAN, |g| g.mean);
+        let sd = g.and_then(|g| g.sd).unwrap_or(f64::NAN);
+        let h = table::histogram(v);
+        rule = h.rule.to_string();
+        hist.push(HistogramGroup { label: label.clone(), edges: h.edges, counts: h.counts, mean, sd, n: v.len() });
+        qq.push(QuantileGroup { label, points: thin(table::normal_quantile_points(v), QQ_DRAWN), mean, sd });
+    }
+    DataViews {
+        histogram: HistogramView { groups: hist, x_label: format!("{what}{u}"), rule },
+        quantile: QuantileView {
+            groups: qq,
+            y_label: format!("{what}{u}"),
+            positions: "Blom’s plotting positions (i − 3/8)/(n + 1/4)".into(),
+        },
+    }
+}
+
+/// Points of a quantile plot drawn per group: more are indistinguishable on
+/// a chart a few hundred pixels wide, and each costs drawing time.
+const QQ_DRAWN: usize = 400;
+
+/// At most `k` points spread evenly by rank, keeping both ends.
+fn thin(points: Vec<(f64, f64)>, k: usize) -> Vec<(f64, f64)> {
+    if points.len() <= k || k < 2 {
+        return points;
+    }
+    let last = points.len() - 1;
+    let mut idx: Vec<usize> = (0..k).map(|i| i * last / (k - 1)).collect();
+    idx.dedup();
+    idx.into_iter().map(|i| points[i]).collect()
 }
