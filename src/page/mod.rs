@@ -13,3 +13,4 @@
 
 pub mod charts;
 pub mod form;
+pub mod results;
