@@ -252,6 +252,10 @@ pub struct Entry {
     pub shape: Shape,
     /// What the estimate is, in words ("the sample mean").
     pub estimate: &'static str,
+    /// The charts' axis of the statistic, in words ("sample mean").
+    pub axis: &'static str,
+    /// H0 in words where it is not "θ0 = value" (two proportions: equal rates).
+    pub null_words: Option<&'static str>,
     /// The estimate is in the user's unit (false: a proportion).
     pub in_unit: bool,
 }
@@ -446,6 +450,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_Z,
         shape: Shape::One,
         estimate: "the sample mean",
+        axis: "sample mean",
+        null_words: None,
         in_unit: true,
     },
     Entry {
@@ -465,6 +471,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_T,
         shape: Shape::One,
         estimate: "the sample mean",
+        axis: "sample mean",
+        null_words: None,
         in_unit: true,
     },
     Entry {
@@ -484,6 +492,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_PAIRED,
         shape: Shape::Paired,
         estimate: "the mean difference",
+        axis: "mean of the paired differences",
+        null_words: None,
         in_unit: true,
     },
     Entry {
@@ -503,6 +513,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_TWO_MEANS,
         shape: Shape::TwoGroups,
         estimate: "the difference of means",
+        axis: "difference of means, group 1 − group 2",
+        null_words: None,
         in_unit: true,
     },
     Entry {
@@ -522,6 +534,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_TWO_MEANS,
         shape: Shape::TwoGroups,
         estimate: "the difference of means",
+        axis: "difference of means, group 1 − group 2",
+        null_words: None,
         in_unit: true,
     },
     Entry {
@@ -541,6 +555,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_PROPORTION,
         shape: Shape::Binary,
         estimate: "the proportion",
+        axis: "number of successes",
+        null_words: None,
         in_unit: false,
     },
     Entry {
@@ -560,6 +576,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_PROPORTION,
         shape: Shape::Binary,
         estimate: "the proportion",
+        axis: "sample proportion",
+        null_words: None,
         in_unit: false,
     },
     Entry {
@@ -579,6 +597,8 @@ pub const REGISTRY: [Entry; 8] = [
         data: &DATA_TWO_PROPORTIONS,
         shape: Shape::TwoGroupsBinary,
         estimate: "the difference of proportions",
+        axis: "difference of proportions, group 1 − group 2",
+        null_words: Some("equal rates"),
         in_unit: false,
     },
 ];

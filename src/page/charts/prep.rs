@@ -7,7 +7,7 @@
 //! recomputed by another method.
 
 use crate::engine::curves::Curves;
-use crate::engine::design::{Design, Family};
+use crate::engine::design::Design;
 use crate::engine::dist::Continuous;
 use crate::engine::evaluate::{Evaluation, Rule};
 use crate::engine::model::Sampling;
@@ -99,16 +99,6 @@ pub struct Views {
     pub total: TotalErrorView,
 }
 
-fn estimate_name(f: Family) -> &'static str {
-    match f {
-        Family::MeanZ | Family::MeanT => "sample mean",
-        Family::PairedT => "mean of the paired differences",
-        Family::TwoMeansPooled | Family::TwoMeansWelch => "difference of means, group 1 − group 2",
-        Family::ProportionExact => "number of successes",
-        Family::ProportionNormal => "sample proportion",
-        Family::TwoProportions => "difference of proportions, group 1 − group 2",
-    }
-}
 
 fn with_unit(text: &str, unit: &str) -> String {
     if unit.is_empty() { text.to_string() } else { format!("{text} ({unit})") }
@@ -150,11 +140,8 @@ fn cuts_of(intervals: &[(f64, f64)]) -> Vec<f64> {
 pub fn views(design: &Design, at: &Evaluation, curves: &Curves, youden_n: Option<u64>, observed: Option<f64>, unit: &str) -> Views {
     let m = &at.model;
     let discrete = curves.densities.discrete;
-    let unit = if matches!(design.family, Family::ProportionExact | Family::ProportionNormal | Family::TwoProportions) {
-        String::new()
-    } else {
-        unit.trim().to_string()
-    };
+    let entry = design.family.entry();
+    let unit = if entry.in_unit { unit.trim().to_string() } else { String::new() };
     // Axis scale: the estimate (continuous) or the count (discrete).
     let (offset, slope) = if discrete || !(m.slope.is_finite() && m.slope != 0.0) { (0.0, 1.0) } else { (m.offset, m.slope) };
     let axis = |t: f64| offset + slope * t;
@@ -204,11 +191,11 @@ pub fn views(design: &Design, at: &Evaluation, curves: &Curves, youden_n: Option
         line.sort_by(|a, b| a.0.total_cmp(&b.0));
     }
     let (theta0, theta1) = design.effect.thetas();
-    let name = estimate_name(design.family);
+    let name = entry.axis;
     let (h0_label, h1_label) = if discrete {
         (format!("if H0 is true (p = {})", short(theta0)), format!("if the effect is θ1 (p = {})", short(theta1)))
-    } else if design.family == Family::TwoProportions {
-        ("if H0 is true (equal rates)".to_string(), format!("if the effect is θ1 (difference {})", short(theta1)))
+    } else if let Some(null) = entry.null_words {
+        (format!("if H0 is true ({null})"), format!("if the effect is θ1 (difference {})", short(theta1)))
     } else {
         (format!("if H0 is true (θ0 = {})", short(theta0)), format!("if the effect is θ1 (θ1 = {})", short(theta1)))
     };
