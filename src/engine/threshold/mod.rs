@@ -11,7 +11,7 @@
 //! is a difference of masses, so the walk follows the likelihood ratio.
 //!
 //! In reading order: `region` (the cuts, which values they reject, their
-//! α and β), `continuous` (the continuous solve), `mass_window` (the counts
+//! α and β, the two-sided count tolerance), `continuous` (the continuous solve), `mass_window` (the counts
 //! that carry mass), `one_sided_counts` and `two_sided_counts` (the
 //! discrete solves).
 
@@ -23,7 +23,7 @@ mod two_sided_counts;
 
 pub use continuous::solve_continuous;
 pub(crate) use mass_window::mass_window;
-pub use region::{ContinuousCut, DiscreteCut, Errors, continuous_errors, discrete_errors};
+pub use region::{ContinuousCut, DiscreteCut, Errors, continuous_errors, discrete_errors, distance_tolerance, same_distance};
 
 use super::dist::{DistError, Discrete};
 use super::root::RootError;

@@ -3,7 +3,7 @@
 //! mass leave regions in contention.
 
 use super::mass_window::{first_true, mass_window_first, mass_window_last};
-use super::region::{DiscreteCut, Errors, discrete_errors};
+use super::region::{DiscreteCut, Errors, discrete_errors, distance_tolerance, same_distance};
 use super::{DiscreteSolution, TIE_TOLERANCE};
 use crate::engine::dist::Discrete;
 
@@ -18,11 +18,6 @@ pub(super) fn solve<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, m0: f64, w: f6
         None => full_walk(h0, h1, m0, w, first, top),
     };
     two_sided_pick(h0, h1, m0, w, candidates)
-}
-
-/// Two counts' distances from m0 that are the same up to rounding of m0.
-fn same_distance(a: f64, b: f64, m0: f64) -> bool {
-    (a - b).abs() <= 1e-9 * (1.0 + m0.abs())
 }
 
 /// Every candidate of the two-sided walk as (half-width, running weighted
@@ -92,14 +87,14 @@ fn local_walk<D0: Discrete, D1: Discrete>(
     if (up && xc as f64 <= m0) || (!up && xc as f64 >= m0) || xc < first || dc < 2.0 {
         return None;
     }
-    let tol = 1e-9 * (1.0 + m0.abs());
+    let tol = distance_tolerance(m0);
     // (i) The largest region whose counts are all nearer than x_c.
     let mut lo = ((m0 - dc + tol).ceil().max(first as f64)) as u64;
     let mut hi = ((m0 + dc - tol).floor().min(top as f64)) as u64;
     if lo > hi {
         return None;
     }
-    let region = |half_width: f64| crate::engine::conventional::outside(m0, half_width, h0.support_max());
+    let region = |half_width: f64| DiscreteCut::outside(m0, half_width, h0.support_max());
     let (lo_start, hi_start) = (lo, hi);
     let d_start = (m0 - lo as f64).max(hi as f64 - m0);
     let mut e = discrete_errors(h0, h1, region(d_start)).weighted(w);
@@ -176,7 +171,7 @@ fn local_walk<D0: Discrete, D1: Discrete>(
 /// smallest α.
 fn two_sided_pick<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, m0: f64, w: f64, candidates: Vec<(f64, f64)>) -> DiscreteSolution {
     let support = h0.support_max();
-    let region = |half_width: f64| crate::engine::conventional::outside(m0, half_width, support);
+    let region = |half_width: f64| DiscreteCut::outside(m0, half_width, support);
     let min = candidates.iter().map(|c| c.1).fold(f64::INFINITY, f64::min);
     // Anything close to the minimum in the running sum is re-evaluated.
     let mut close: Vec<(DiscreteCut, Errors)> = candidates
