@@ -5,7 +5,7 @@
 use super::region::{ContinuousCut, Errors, continuous_errors};
 use super::{Alternative, ContinuousSolution, Setup, TIE_TOLERANCE, ThresholdError, check_weight};
 use crate::engine::dist::{Continuous, Normal};
-use crate::engine::root::{RootError, Tolerance, brent, brent_from, expand};
+use crate::engine::root::{HalleyTolerance, RootError, Tolerance, brent, brent_from, expand, halley};
 
 
 /// Find the continuous threshold c* minimising w·α + (1 − w)·β.
@@ -33,18 +33,18 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
             // Halley first: from the crossing of the equal-variance normal
             // shift with the same centres and weights, g and its slope
             // from the same density evaluations.
-            let newton_root = if setup.single_crossing {
+            let by_halley = if setup.single_crossing {
                 let slope = (c1 - c0) / (h0.spread() * h1.spread());
                 let start = 0.5 * (c0 + c1) - (lw1 - lw0) / slope;
                 let gs = |c: f64| {
                     let ((l1, s1, k1), (l0, s0, k0)) = (h1.ln_pdf_derivatives(c), h0.ln_pdf_derivatives(c));
                     ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
                 };
-                newton(gs, start, rising, f64::NEG_INFINITY, spread, &mut iterations)
+                halley_root(gs, start, rising, f64::NEG_INFINITY, spread, &mut iterations)
             } else {
                 None
             };
-            if let Some(x) = newton_root {
+            if let Some(x) = by_halley {
                 candidates.push(x);
             } else if setup.single_crossing {
                 let anchor = 0.5 * (h0.centre() + h1.centre());
@@ -96,7 +96,7 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
             // sides' densities: d/dc ln(f(t0+c) + f(t0−c)) is the
             // density-weighted mean of the slopes at t0 + c and −(slope at
             // t0 − c).
-            let newton_root = if setup.single_crossing {
+            let by_halley = if setup.single_crossing {
                 // With F(c) = f(t0+c) + f(t0−c) and shares pa, pb of the two
                 // terms: (ln F)' = pa·sa − pb·sb and
                 // (ln F)'' = pa·(ka + sa²) + pb·(kb + sb²) − ((ln F)')².
@@ -124,16 +124,16 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
                             let ((l1, s1, k1), (l0, s0, k0)) = (side(&n1, c), side(&n0, c));
                             ((lw1 + l1) - (lw0 + l0), s1 - s0, k1 - k0)
                         };
-                        newton(gn, rough, true, 0.0, spread, &mut 0).unwrap_or(rough)
+                        halley_root(gn, rough, true, 0.0, spread, &mut 0).unwrap_or(rough)
                     }
                     _ => rough,
                 };
-                newton(gs, start, true, 0.0, spread, &mut iterations)
+                halley_root(gs, start, true, 0.0, spread, &mut iterations)
             } else {
                 None
             };
-            let single = if newton_root.is_some() {
-                newton_root.map(|x| ((x, 0.0), (x, 0.0)))
+            let single = if by_halley.is_some() {
+                by_halley.map(|x| ((x, 0.0), (x, 0.0)))
             } else if setup.single_crossing {
                 let ga = g(anchor);
                 let direction = if ga < 0.0 { 1.0 } else { -1.0 };
@@ -152,7 +152,7 @@ pub fn solve_continuous<C0: Continuous, C1: Continuous>(
                 None
             };
             match single {
-                Some(((x, _), _)) if newton_root.is_some() => candidates.push(x),
+                Some(((x, _), _)) if by_halley.is_some() => candidates.push(x),
                 Some((lo, hi)) => {
                     let root = brent_from(g, lo, hi, Tolerance::TIGHT)?;
                     iterations += root.iterations;
@@ -186,68 +186,26 @@ fn ln_add(a: f64, b: f64) -> f64 {
     if hi == f64::NEG_INFINITY { hi } else { hi + (lo - hi).exp().ln_1p() }
 }
 
-/// Relative step below which Newton stops: the next (unevaluated) step
-/// is then about its square, far below the 1e-13 the callers need.
-const NEWTON_STOP: f64 = 1e-8;
+/// Relative step below which Halley's iteration stops: the next
+/// (unevaluated) step is then about its square, far below the 1e-13 the
+/// callers need.
+const HALLEY_STOP: f64 = 1e-8;
 
-/// A root of g by Halley's method with g's exact first and second
-/// derivatives (`gs` returns all three; a non-finite second derivative or a
-/// Halley factor outside [½, 2] falls back to the Newton step), from
-/// `start`, for a g that crosses zero once, rising or falling as `rising`
-/// says, on [floor, ∞). Safeguarded: the points seen keep a bracket and a
-/// step leaving it is replaced by bisection. It stops when
-/// the step falls below [`NEWTON_STOP`] relative (plus 1e-13 of `scale`),
-/// returning the point after that step; (at least) quadratic convergence
-/// makes its error about the step squared. `None` (the caller then brackets and runs
-/// Brent's method) on a non-finite value, a slope of the wrong sign, a step
-/// below `floor` or 12 evaluations without converging.
-fn newton<G: Fn(f64) -> (f64, f64, f64)>(gs: G, start: f64, rising: bool, floor: f64, scale: f64, iterations: &mut usize) -> Option<f64> {
-    let (mut lo, mut hi) = (floor, f64::INFINITY);
-    let mut x = start;
-    let mut last_step = f64::NAN;
-    for _ in 0..12 {
-        let (g, slope, curvature) = gs(x);
+/// A root of g by [`halley`] (g's exact first and second derivatives from
+/// `gs`), from `start`, for a g that crosses zero once, rising or falling
+/// as `rising` says, on (floor, ∞). Stopping rule: a step below
+/// [`HALLEY_STOP`] relative plus 1e-13 of `scale`, or, once quadratic
+/// convergence is seen, a predicted next error below 1e-15 relative; at
+/// most 12 evaluations, each counted in `iterations`. `None` on any
+/// [`RootError`] (not finite, wrong slope, no convergence): the caller
+/// then brackets and runs Brent's method.
+fn halley_root<G: Fn(f64) -> (f64, f64, f64)>(gs: G, start: f64, rising: bool, floor: f64, scale: f64, iterations: &mut usize) -> Option<f64> {
+    let tol = HalleyTolerance { step: Tolerance { abs: 1e-13 * scale, rel: HALLEY_STOP, max_iterations: 12 }, predicted_rel: 1e-15 };
+    let counted = |c: f64| {
         *iterations += 1;
-        if !g.is_finite() {
-            return None;
-        }
-        if g == 0.0 {
-            return Some(x);
-        }
-        // The root lies above x where g has not yet reached 0.
-        if (g < 0.0) == rising {
-            lo = lo.max(x);
-        } else {
-            hi = hi.min(x);
-        }
-        if !slope.is_finite() || slope == 0.0 || (slope > 0.0) != rising {
-            return None;
-        }
-        let newton_step = g / slope;
-        // Halley: divide by 1 − g·g''/(2g'²) (Press et al., Numerical
-        // Recipes, 3rd ed., §9.4); cubic convergence from a fair start.
-        let factor = 1.0 - 0.5 * newton_step * curvature / slope;
-        let step = if factor.is_finite() && (0.5..=2.0).contains(&factor) { newton_step / factor } else { newton_step };
-        let mut next = x - step;
-        if !(next > lo && next < hi) {
-            if !(lo.is_finite() && hi.is_finite()) {
-                return None;
-            }
-            next = 0.5 * (lo + hi);
-        } else if step.abs() <= NEWTON_STOP * x.abs() + 1e-13 * scale {
-            return Some(next);
-        } else if step.abs() <= 1e-4 * x.abs() && step.abs() <= 0.1 * last_step.abs() {
-            // Quadratic convergence seen (e_next ≈ C·e², C from the last
-            // two steps): stop when the predicted next error is negligible.
-            let predicted = step * step * (step / (last_step * last_step)).abs();
-            if predicted <= 1e-15 * x.abs() {
-                return Some(next);
-            }
-        }
-        last_step = step;
-        x = next;
-    }
-    None
+        gs(c)
+    };
+    halley(counted, start, (floor, f64::INFINITY), rising, tol).ok().map(|root| root.x)
 }
 
 /// Two points 3 % either side of anchor + step; returns them (with g) when
