@@ -4,16 +4,17 @@
 //! Conventions (direction, the two-sided rule |T − t0| > c, ties) are those
 //! of DEVELOPERS.md, "Statistical conventions". A continuous c* is a root of
 //! ln((1 − w)·f1) − ln(w·f0) (one-sided; the two-sided form sums the
-//! densities at t0 ± c), found by Halley's method with the densities' exact
-//! derivatives where they cross once, else (or whenever it misbehaves) by
-//! Brent's method from a bracket; never read off a grid. A discrete c* is
-//! found exactly: the difference of the error between neighbouring cut-offs
-//! is a difference of masses, so the walk follows the likelihood ratio.
+//! densities at t0 ± c), found by Halley's method (`root::halley`) with the
+//! densities' exact derivatives where they cross once, else (or whenever it
+//! returns an error) by Brent's method from a bracket; never read off a
+//! grid. A discrete c* is found exactly: the difference of the error
+//! between neighbouring cut-offs is a difference of masses, so the walk
+//! follows the likelihood ratio.
 //!
-//! In reading order: `region` (the cuts, which values they reject, their
-//! α and β, the two-sided count tolerance), `continuous` (the continuous solve), `mass_window` (the counts
-//! that carry mass), `one_sided_counts` and `two_sided_counts` (the
-//! discrete solves).
+//! In reading order: `region` (the cuts, which values they reject, their α
+//! and β, the two-sided count tolerance), `continuous` (the continuous
+//! solve), `mass_window` (the counts that carry mass), `one_sided_counts`
+//! and `two_sided_counts` (the discrete solves).
 
 mod continuous;
 mod mass_window;
