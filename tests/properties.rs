@@ -11,7 +11,6 @@
 
 use proptest::prelude::*;
 use proptest::test_runner::Config as ProptestConfig;
-use tern::engine::conventional::outside;
 use tern::engine::decision::{Outcome, Summary, decide};
 use tern::engine::design::{Design, DesignSpec, Family};
 use tern::engine::dist::{Continuous, Discrete};
@@ -204,7 +203,7 @@ fn check_discrete_minimum<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, cut: Dis
         DiscreteCut::AtLeast(_) => (0..=n + 1).map(DiscreteCut::AtLeast).collect(),
         DiscreteCut::AtMost(_) => (-1..=n).map(DiscreteCut::AtMost).collect(),
         DiscreteCut::Outside { .. } => {
-            let mut v: Vec<DiscreteCut> = (0..=n).map(|x| outside(m0, (x as f64 - m0).abs(), n as u64)).collect();
+            let mut v: Vec<DiscreteCut> = (0..=n).map(|x| DiscreteCut::outside(m0, (x as f64 - m0).abs(), n as u64)).collect();
             // Half-width below every distance: always reject.
             v.push(DiscreteCut::Outside { centre: m0, half_width: -1.0, low: None, high: Some(0) });
             v

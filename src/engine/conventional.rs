@@ -4,7 +4,8 @@
 use super::dist::{Continuous, Discrete};
 use super::root::{Tolerance, brent, expand};
 use super::threshold::{
-    Alternative, ContinuousCut, DiscreteCut, Errors, ThresholdError, continuous_errors, discrete_errors,
+    Alternative, ContinuousCut, DiscreteCut, Errors, ThresholdError, continuous_errors, discrete_errors, mass_window,
+    same_distance,
 };
 
 /// The level-α test of a continuous statistic. Two-sided: the half-width c
@@ -50,11 +51,11 @@ pub fn discrete_level<D0: Discrete, D1: Discrete>(
             let support = h0.support_max();
             // Counts outside [first, top] carry negligible H0 mass: they
             // cannot move α across any level a user can state.
-            let (first, top) = super::threshold::mass_window(h0);
+            let (first, top) = mass_window(h0);
             let mut distances: Vec<f64> = (first..=top).map(|x| (x as f64 - centre).abs()).collect();
             distances.sort_by(f64::total_cmp);
-            distances.dedup_by(|a, b| (*a - *b).abs() <= 1e-9 * (1.0 + centre.abs()));
-            let region = |c: f64| outside(centre, c, support);
+            distances.dedup_by(|a, b| same_distance(*a, *b, centre));
+            let region = |c: f64| DiscreteCut::outside(centre, c, support);
             // α falls as the half-width grows: bisect for the first fit.
             let (mut a, mut b) = (0usize, distances.len());
             while a < b {
@@ -68,17 +69,4 @@ pub fn discrete_level<D0: Discrete, D1: Discrete>(
         }
     };
     Ok((cut, discrete_errors(h0, h1, cut)))
-}
-
-/// The two-sided count region |X − m0| > c as X ≤ low or X ≥ high.
-pub fn outside(centre: f64, half_width: f64, support: u64) -> DiscreteCut {
-    let tol = 1e-9 * (1.0 + centre.abs());
-    let k_low = (centre - half_width - tol).ceil() as i64 - 1;
-    let k_high = (centre + half_width + tol).floor() as i64 + 1;
-    DiscreteCut::Outside {
-        centre,
-        half_width,
-        low: if k_low >= 0 { Some(k_low) } else { None },
-        high: if k_high >= 0 && (k_high as u64) <= support { Some(k_high) } else { None },
-    }
 }

@@ -124,7 +124,7 @@ pub fn curves(design: &Design, at: &Evaluation, n_hi: u64) -> Result<Curves, Eva
                     let cut = match design.alternative {
                         Alternative::Greater => DiscreteCut::AtLeast(k as i64),
                         Alternative::Less => DiscreteCut::AtMost(k as i64),
-                        Alternative::TwoSided => super::conventional::outside(centre, (k as f64 - centre).abs(), support),
+                        Alternative::TwoSided => DiscreteCut::outside(centre, (k as f64 - centre).abs(), support),
                     };
                     let e = discrete_errors(h0, h1, cut);
                     let threshold = if two_sided { (k as f64 - centre).abs() } else { k as f64 };

@@ -9,9 +9,9 @@
 use super::design::{Design, Effect, Family};
 use super::family::Shape;
 use super::dist::{Continuous, Discrete};
-use super::evaluate::{Cut, EvaluateError, Evaluation, evaluate_observed, sig3};
+use super::evaluate::{EvaluateError, Evaluation, evaluate_observed, sig3};
 use super::model::{Observed, Sampling};
-use super::threshold::{Alternative, ContinuousCut, DiscreteCut};
+use super::threshold::{Alternative, distance_tolerance};
 use serde::Serialize;
 
 /// Summary data, as a user reads them off a report or a spreadsheet.
@@ -223,16 +223,7 @@ pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError
     let at_n = evaluate_observed(design, n1, n2, &obs)?;
     let model = &at_n.model;
     let centre = model.setup.centre;
-    let in_region = match at_n.cut {
-        Cut::Continuous(ContinuousCut::Above(c)) => t > c,
-        Cut::Continuous(ContinuousCut::Below(c)) => t < c,
-        Cut::Continuous(ContinuousCut::Outside { centre, half_width }) => (t - centre).abs() > half_width,
-        Cut::Discrete(DiscreteCut::AtLeast(k)) => t >= k as f64,
-        Cut::Discrete(DiscreteCut::AtMost(k)) => t <= k as f64,
-        Cut::Discrete(DiscreteCut::Outside { centre, half_width, .. }) => {
-            (t - centre).abs() > half_width + 1e-9 * (1.0 + centre.abs())
-        }
-    };
+    let in_region = at_n.cut.rejects(t);
     let p_value = match &model.sampling {
         Sampling::Continuous { h0, .. } => match design.alternative {
             Alternative::Greater => h0.sf(t),
@@ -249,7 +240,7 @@ pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError
                 Alternative::Less => h0.cdf(x),
                 Alternative::TwoSided => {
                     let a = (t - centre).abs();
-                    let tol = 1e-9 * (1.0 + centre.abs());
+                    let tol = distance_tolerance(centre);
                     let low = (centre - a + tol).floor();
                     let high = (centre + a - tol).ceil();
                     let lower = if low >= 0.0 { h0.cdf(low as u64) } else { 0.0 };

@@ -120,6 +120,18 @@ pub enum Cut {
     Discrete(DiscreteCut),
 }
 
+impl Cut {
+    /// Does the region reject H0 at the statistic t (a count for discrete
+    /// cuts)? The one rejection rule: [`ContinuousCut::rejects`] and
+    /// [`DiscreteCut::rejects`].
+    pub fn rejects(&self, t: f64) -> bool {
+        match self {
+            Cut::Continuous(c) => c.rejects(t),
+            Cut::Discrete(c) => c.rejects(t),
+        }
+    }
+}
+
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum EvaluateError {
     #[error(transparent)]

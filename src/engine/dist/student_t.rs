@@ -15,7 +15,8 @@
 //! beyond that the limit's tails carry no relative accuracy guarantee.
 
 use super::noncentral_t::{t_quantile, t_spread};
-use super::t_integral::{NU_LIMIT, ln_lower, ln_mean_s};
+use super::t_beta::ln_mean_s;
+use super::t_integral::{NU_LIMIT, ln_lower};
 use super::{Continuous, DistError, check};
 
 /// ln √(2π).

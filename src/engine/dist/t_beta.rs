@@ -1,5 +1,7 @@
 //! The central t tails through the regularised incomplete beta function,
-//! a fast path beside the mixture integral of `t_integral`.
+//! a fast path beside the mixture integral of `t_integral`; and the
+//! gamma-function ratio `ln_mean_s` behind B(ν/2, ½), which both t
+//! densities' normalising constants share.
 //!
 //! For T ~ t(ν) and t < 0, P(T ≤ t) = ½·I_z(ν/2, ½) with z = ν/(ν + t²)
 //! (Abramowitz & Stegun 26.7.1 with 26.5.27). I_z(a, b) is evaluated by its
@@ -16,8 +18,6 @@
 //! serves ν up to [`NU_MAX`] and moderate t, where the solves and the
 //! sample-size searches spend their time. Verified with the integral against
 //! mpmath (tests/dist_t.rs).
-
-use super::t_integral::ln_mean_s;
 
 /// ½·ln π.
 const LN_SQRT_PI: f64 = 0.572_364_942_924_700_1;
@@ -63,6 +63,29 @@ pub(super) fn ln_lower_central(t: f64, nu: f64) -> Option<f64> {
     };
     let ln_small = ln_i - std::f64::consts::LN_2;
     Some(if t < 0.0 { ln_small } else { (-ln_small.exp()).ln_1p() })
+}
+
+/// ln E[S] = ln(√(2/ν)·Γ((ν+1)/2)/Γ(ν/2)) for S = √(V/ν), V ~ χ²(ν), by
+/// Stirling's series for large ν (the two ln Γ would cancel to 13 digits
+/// at ν = 1e6). It gives ln B(ν/2, ½) = ln √π − ln E[S] − ½·ln(ν/2), and
+/// the central t density's normalising constant 1/(√ν·B(ν/2, ½)) =
+/// E[S]/√(2π).
+pub(super) fn ln_mean_s(nu: f64) -> f64 {
+    let a = 0.5 * nu;
+    if a < 10.0 {
+        0.5 * (1.0 / a).ln() + libm::lgamma(a + 0.5) - libm::lgamma(a)
+    } else {
+        // ln Γ(a+½) − ln Γ(a) = ½·ln a + a·(ln(1+x) − x) + μ(a+½) − μ(a)
+        // with x = 1/(2a); the ½·ln a cancels against ln √(2/ν).
+        let x = 0.5 / a;
+        let mu = |z: f64| {
+            let r = 1.0 / (z * z);
+            (1.0 / 12.0 - r * (1.0 / 360.0 - r * (1.0 / 1260.0 - r * (1.0 / 1680.0 - r / 1188.0))))
+                / z
+        };
+        let log1pmx = x.ln_1p() - x;
+        a * log1pmx + mu(a + 0.5) - mu(a)
+    }
 }
 
 /// The continued fraction of I_x(a, b)·a·B(a, b)/(x^a·(1 − x)^b)

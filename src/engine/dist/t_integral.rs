@@ -30,6 +30,7 @@
 use crate::engine::root::{Tolerance, brent_from};
 use super::DistError;
 use super::normal::{std_cdf, std_pdf, std_sf};
+use super::t_beta::{ln_lower_central, ln_mean_s};
 
 /// ln √(2π).
 const LN_SQRT_2PI: f64 = 0.918_938_533_204_672_8;
@@ -475,7 +476,7 @@ pub(super) fn ln_lower(t: f64, nu: f64, delta: f64) -> f64 {
     if delta == 0.0 {
         // The central t: the incomplete beta's continued fraction is a
         // small fraction of the quadrature's cost where it converges fast.
-        if let Some(v) = super::t_beta::ln_lower_central(t, nu) {
+        if let Some(v) = ln_lower_central(t, nu) {
             return v.min(0.0);
         }
     }
@@ -553,26 +554,6 @@ fn ln_density_fast_cases(t: f64, nu: f64, delta: f64) -> Option<(f64, f64, f64)>
         return Some((ln_density(t, nu, delta), -(nu + 1.0) * t * r, -(nu + 1.0) * (nu - t * t) * r * r));
     }
     None
-}
-
-/// ln E[S] = ln(√(2/ν)·Γ((ν+1)/2)/Γ(ν/2)), by Stirling's series for large ν
-/// (the two ln Γ would cancel to 13 digits at ν = 1e6).
-pub(super) fn ln_mean_s(nu: f64) -> f64 {
-    let a = 0.5 * nu;
-    if a < 10.0 {
-        0.5 * (1.0 / a).ln() + libm::lgamma(a + 0.5) - libm::lgamma(a)
-    } else {
-        // ln Γ(a+½) − ln Γ(a) = ½·ln a + a·(ln(1+x) − x) + μ(a+½) − μ(a)
-        // with x = 1/(2a); the ½·ln a cancels against ln √(2/ν).
-        let x = 0.5 / a;
-        let mu = |z: f64| {
-            let r = 1.0 / (z * z);
-            (1.0 / 12.0 - r * (1.0 / 360.0 - r * (1.0 / 1260.0 - r * (1.0 / 1680.0 - r / 1188.0))))
-                / z
-        };
-        let log1pmx = x.ln_1p() - x;
-        a * log1pmx + mu(a + 0.5) - mu(a)
-    }
 }
 
 /// Find x with ln F(x) = ln p for a monotone tail function given as its

@@ -4,7 +4,7 @@
 use super::charts_data::quantiles;
 use super::columns::{Column, MISSING};
 use super::notes::{self, Group};
-use super::summary::Moments;
+use super::summary::{GroupStats, Moments};
 use super::{ColumnKind, Table, MAX_LEVELS};
 use crate::engine::decision::Summary;
 use serde::{Deserialize, Serialize};
@@ -25,30 +25,6 @@ pub enum Mapping {
     Binary { column: usize, success: String },
     /// Two proportions: `two_proportions`.
     TwoGroupsBinary { outcome: usize, success: String, group: usize, level1: String, level2: String },
-}
-
-/// One group's figures.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct GroupStats {
-    /// What the group is, in words (`weight`, `score: A`, `before − after`).
-    pub label: String,
-    /// Values used.
-    pub n: usize,
-    /// Rows of this group whose value is missing or not a number.
-    pub missing: usize,
-    pub mean: f64,
-    /// Sample standard deviation (n − 1); `None` for n < 2.
-    pub sd: Option<f64>,
-    pub median: f64,
-    pub min: f64,
-    pub max: f64,
-    /// Bias-adjusted skewness G1; `None` for n < 3 or sd = 0.
-    pub skewness: Option<f64>,
-    /// Bias-adjusted excess kurtosis G2; `None` for n < 4 or sd = 0.
-    pub excess_kurtosis: Option<f64>,
-    /// Binary outcomes: the number of successes (`mean` is then the
-    /// proportion).
-    pub successes: Option<usize>,
 }
 
 /// What a mapping gives: per-group figures, what was left out, the summary

@@ -12,7 +12,7 @@
 //! - proportions: fewer than 5 successes or 5 failures in a group makes the
 //!   normal approximation rough.
 
-use super::mapping::GroupStats;
+use super::summary::GroupStats;
 use super::Table;
 
 /// One group as the notes see it.

@@ -1,4 +1,5 @@
-//! One-pass moments of a sample: n, mean, M2, M3, M4, min, max.
+//! One-pass moments of a sample: n, mean, M2, M3, M4, min, max; and the
+//! figures of one group that a mapping reports from them (`GroupStats`).
 //!
 //! Algorithm: Welford's update of the mean and M2 extended to M3 and M4 by
 //! Terriberry (2007), as given in Pébay, "Formulas for robust, one-pass
@@ -18,6 +19,8 @@
 //! mean stays of the order of the spread. Without it the running mean of
 //! data near 1e9 with a spread of 0.01 is rounded to 1e-7 at every step and
 //! the sd loses six digits; with it the sd matches a two-pass computation.
+
+use serde::Serialize;
 
 /// Running central moment sums of the shifted values.
 #[derive(Debug, Clone, Copy, PartialEq, Default)]
@@ -99,4 +102,28 @@ impl Moments {
         let g2 = n * self.m4 / (self.m2 * self.m2) - 3.0;
         Some(((n + 1.0) * g2 + 6.0) * (n - 1.0) / ((n - 2.0) * (n - 3.0)))
     }
+}
+
+/// One group's figures.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct GroupStats {
+    /// What the group is, in words (`weight`, `score: A`, `before − after`).
+    pub label: String,
+    /// Values used.
+    pub n: usize,
+    /// Rows of this group whose value is missing or not a number.
+    pub missing: usize,
+    pub mean: f64,
+    /// Sample standard deviation (n − 1); `None` for n < 2.
+    pub sd: Option<f64>,
+    pub median: f64,
+    pub min: f64,
+    pub max: f64,
+    /// Bias-adjusted skewness G1; `None` for n < 3 or sd = 0.
+    pub skewness: Option<f64>,
+    /// Bias-adjusted excess kurtosis G2; `None` for n < 4 or sd = 0.
+    pub excess_kurtosis: Option<f64>,
+    /// Binary outcomes: the number of successes (`mean` is then the
+    /// proportion).
+    pub successes: Option<usize>,
 }
