@@ -59,11 +59,12 @@ impl Rule {
     fn discrete(cut: DiscreteCut, m: &Model) -> Rule {
         let est = |k: i64| m.offset + m.slope * k as f64;
         match cut {
-            DiscreteCut::AtLeast(k) if k as u64 > m.n1 => Rule::Never,
+            // Compared as i128 so that a negative k cannot wrap to "never".
             DiscreteCut::AtLeast(k) if k <= 0 => Rule::Always,
+            DiscreteCut::AtLeast(k) if i128::from(k) > i128::from(m.n1) => Rule::Never,
             DiscreteCut::AtLeast(k) => Rule::AtLeast { k, estimate: est(k) },
             DiscreteCut::AtMost(k) if k < 0 => Rule::Never,
-            DiscreteCut::AtMost(k) if k as u64 >= m.n1 => Rule::Always,
+            DiscreteCut::AtMost(k) if i128::from(k) >= i128::from(m.n1) => Rule::Always,
             DiscreteCut::AtMost(k) => Rule::AtMost { k, estimate: est(k) },
             DiscreteCut::Outside { half_width, .. } if half_width < 0.0 => Rule::Always,
             DiscreteCut::Outside { low: None, high: None, .. } => Rule::Never,

@@ -15,6 +15,10 @@ pub(super) fn solve<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, upper: bool, w
     // Sign of D(k): > 0 where the weighted H1 mass is larger.
     let d = |k: u64| (lw1 + h1.ln_pmf(k)) - (lw0 + h0.ln_pmf(k));
     let errors = |cut| discrete_errors(h0, h1, cut);
+    // The cut-offs that mean something: X ≥ 0 rejects always and X ≥ n + 1
+    // never (X ≤ −1 never, X ≤ n always); beyond them only the same rules
+    // repeat, which are no ties.
+    let last = i64::try_from(h0.support_max().max(h1.support_max())).unwrap_or(i64::MAX - 1);
     // (1 − w)·p1(x) − w·p0(x), 0 off the support.
     let mass_step = |x: i64| if x < 0 { 0.0 } else { (1.0 - w) * h1.pmf(x as u64) - w * h0.pmf(x as u64) };
     if upper {
@@ -30,6 +34,7 @@ pub(super) fn solve<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, upper: bool, w
         // Rejecting X ≥ j + 1 instead of X ≥ j accepts X = j.
         with_ties(
             k,
+            (0, last + 1),
             cut,
             &errors,
             w,
@@ -54,6 +59,7 @@ pub(super) fn solve<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, upper: bool, w
         // Rejecting X ≤ j + 1 instead of X ≤ j rejects X = j + 1.
         with_ties(
             k,
+            (-1, last),
             DiscreteCut::AtMost,
             &errors,
             w,
@@ -109,7 +115,9 @@ fn quick_first<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, d: &dyn Fn(u64) -> 
 /// masses: a neighbour whose summed steps exceed the tie tolerance tenfold
 /// cannot tie (the tails agree with the masses to about 1e-15 of E), so its
 /// tails are not computed; any other is judged from its tails as before.
-fn with_ties<F, M, K, S>(k: i64, make: M, errors: &F, w: f64, key: K, step: S) -> DiscreteSolution
+/// Neighbours outside `range` (the cut-offs that mean something) are not
+/// visited.
+fn with_ties<F, M, K, S>(k: i64, range: (i64, i64), make: M, errors: &F, w: f64, key: K, step: S) -> DiscreteSolution
 where
     F: Fn(DiscreteCut) -> Errors,
     M: Fn(i64) -> DiscreteCut,
@@ -128,6 +136,9 @@ where
         // More than a handful of exact ties cannot happen under a monotone
         // likelihood ratio; the bound keeps the walk finite regardless.
         for _ in 0..4 {
+            if j < range.0 || j > range.1 {
+                break;
+            }
             moved += if dir > 0 { step(j - 1) } else { -step(j) };
             if moved.abs() > 10.0 * scale {
                 break;
@@ -152,6 +163,26 @@ where
 mod tests {
     use super::*;
     use crate::engine::dist::Discrete;
+
+    /// Regression (found by the property test `mirror_images_agree`): when
+    /// the best rule is "always reject", the tie walk went below X ≥ 0 and
+    /// reported X ≥ −4 … X ≥ 0 as five tied rules. By hand, n = 1,
+    /// p0 = .3125, p1 = .40625, w = .2: always rejecting costs
+    /// w·1 = .2; X ≥ 1 costs .2·.3125 + .8·.59375 = .5375; never rejecting
+    /// costs .8. The optimum is X ≥ 0, alone.
+    #[test]
+    fn always_reject_is_one_rule_not_a_run_of_ties() {
+        use crate::engine::dist::Binomial;
+        let (h0, h1) = (Binomial::new(1, 0.3125).unwrap(), Binomial::new(1, 0.40625).unwrap());
+        let s = solve(&h0, &h1, true, 0.2);
+        assert_eq!(s.cut, DiscreteCut::AtLeast(0));
+        assert_eq!((s.errors.alpha, s.errors.beta), (1.0, 0.0));
+        assert_eq!(s.ties, vec![DiscreteCut::AtLeast(0)]);
+        // Mirrored: reject X ≤ 1 (= always) with p0 = .40625 > p1 = .3125.
+        let s = solve(&h1, &h0, false, 0.2);
+        assert!(s.ties.iter().all(|c| matches!(c, DiscreteCut::AtMost(k) if (-1..=1).contains(k))), "{:?}", s.ties);
+        assert_eq!((s.errors.alpha, s.errors.beta), (1.0, 0.0));
+    }
 
     /// The one-sided discrete crossing found by interpolation over the
     /// support is the one the bisection over the mass window finds, or the

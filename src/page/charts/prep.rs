@@ -163,9 +163,9 @@ pub fn views(design: &Design, at: &Evaluation, curves: &Curves, youden_n: Option
             if !discrete {
                 return format!("threshold {}{u}", short(c));
             }
-            // Counts: the cut lies halfway between two counts; say which
-            // counts reject.
-            let above = reject.iter().any(|&(a, _)| (a - c).abs() < 1e-9);
+            // Counts: the cut lies halfway between two counts (the axis
+            // is the count); the engine's rule says which side rejects.
+            let above = at.cut.rejects(c + 0.5);
             if above { format!("reject at {} or more", short(c + 0.5)) } else { format!("reject at {} or fewer", short(c - 0.5)) }
         })
         .collect();
