@@ -15,7 +15,7 @@
 //! beyond that the limit's tails carry no relative accuracy guarantee.
 
 use super::noncentral_t::{t_quantile, t_spread};
-use super::t_beta::ln_mean_s;
+use super::t_beta::{ln_density_closed, ln_mean_s};
 use super::t_integral::{NU_LIMIT, ln_lower};
 use super::{Continuous, DistError, check};
 
@@ -106,20 +106,6 @@ impl Continuous for StudentT {
     fn spread(&self) -> f64 {
         t_spread(self.df, 0.0)
     }
-}
-
-/// ln f(x) of t(ν) from the closed form, given ln f(0) (see
-/// [`StudentT::new`]); finite x, ν ≤ the normal-limit switch.
-pub(super) fn ln_density_closed(x: f64, nu: f64, ln_f0: f64) -> f64 {
-    let x2 = x * x;
-    // ln(1 + x²/ν), rewritten for |x| > √ν so that x² may overflow
-    // without the logarithm doing so.
-    let ln_base = if x2 <= nu {
-        (x2 / nu).ln_1p()
-    } else {
-        2.0 * x.abs().ln() - nu.ln() + (nu / x2).ln_1p()
-    };
-    ln_f0 - 0.5 * (nu + 1.0) * ln_base
 }
 
 #[cfg(test)]

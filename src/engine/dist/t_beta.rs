@@ -119,3 +119,17 @@ fn continued_fraction(a: f64, b: f64, x: f64, one_minus_x: f64) -> Option<f64> {
     }
     None
 }
+
+/// ln f(x) of t(ν) from the closed form, given ln f(0) (see
+/// `StudentT::new`); finite x, ν ≤ the normal-limit switch.
+pub(super) fn ln_density_closed(x: f64, nu: f64, ln_f0: f64) -> f64 {
+    let x2 = x * x;
+    // ln(1 + x²/ν), rewritten for |x| > √ν so that x² may overflow
+    // without the logarithm doing so.
+    let ln_base = if x2 <= nu {
+        (x2 / nu).ln_1p()
+    } else {
+        2.0 * x.abs().ln() - nu.ln() + (nu / x2).ln_1p()
+    };
+    ln_f0 - 0.5 * (nu + 1.0) * ln_base
+}

@@ -30,7 +30,7 @@
 use crate::engine::root::{Tolerance, brent_from};
 use super::DistError;
 use super::normal::{std_cdf, std_pdf, std_sf};
-use super::t_beta::{ln_lower_central, ln_mean_s};
+use super::t_beta::{ln_density_closed, ln_lower_central, ln_mean_s};
 
 /// ln √(2π).
 const LN_SQRT_2PI: f64 = 0.918_938_533_204_672_8;
@@ -504,7 +504,7 @@ pub(super) fn ln_density(t: f64, nu: f64, delta: f64) -> f64 {
     }
     if delta == 0.0 {
         // The central t has a closed form; the quadrature is for δ ≠ 0.
-        return super::student_t::ln_density_closed(t, nu, ln_mean_s(nu) - LN_SQRT_2PI);
+        return ln_density_closed(t, nu, ln_mean_s(nu) - LN_SQRT_2PI);
     }
     let f = Integrand::new(t, nu, delta, true);
     ln_norm(nu) + f.ln_integral()
