@@ -404,4 +404,29 @@ mod tests {
         assert!(r.ask.data.is_none());
         assert!(r.messages.iter().any(|m| m.field == "data.sd2" && m.text.contains("decide")));
     }
+
+    #[test]
+    fn every_refusal_comes_back_at_once_beside_its_input() {
+        // A design the engine refuses: the message sits at the page's own
+        // input for the field (a proportion's θ0 is shown as p0).
+        let t = text("proportion_exact", "greater", &[("p0", "0.8"), ("p_alt", "0.7"), ("alpha_max", "0.05"), ("beta_max", "0.2")]);
+        let r = read(&t);
+        let reply = crate::engine::request::reply(&r.ask);
+        assert!(reply.answer.is_none());
+        let m: Vec<FieldMessage> = reply.errors.iter().map(|e| engine_message(r.family, e)).collect();
+        assert_eq!(m.len(), 1);
+        assert_eq!(m[0].field, "p_alt", "{m:?}");
+        // A refused n and refused data in one answer: both placed, the
+        // design still answered without them.
+        let t = text(
+            "mean_t",
+            "greater",
+            &[("d", ""), ("theta0", "0"), ("theta1", "0.5"), ("sigma", "1"), ("alpha_max", "0.05"), ("beta_max", "0.2"), ("n", "1"), ("data.n", "10"), ("data.mean", "1"), ("data.sd", "0")],
+        );
+        let r = read(&t);
+        let reply = crate::engine::request::reply(&r.ask);
+        assert!(reply.answer.is_some());
+        let fields: Vec<String> = reply.errors.iter().map(|e| engine_message(r.family, e).field).collect();
+        assert!(fields.contains(&"n".to_string()) && fields.contains(&"data.sd".to_string()), "{fields:?}");
+    }
 }
