@@ -47,8 +47,10 @@ pub fn inputs() -> Vec<PageInput> {
             v.push(PageInput { name: f.input, part, read: f.read });
         }
     };
-    for e in &REGISTRY {
-        for f in e.design {
+    // Required inputs first, then the optional ones (the allocation ratio),
+    // so that every family's inputs read in its own order on the page.
+    for required in [true, false] {
+        for f in REGISTRY.iter().flat_map(|e| e.design.iter()).filter(|f| f.required == required) {
             push(f, Part::Design);
         }
     }
@@ -428,5 +430,14 @@ mod tests {
         assert!(reply.answer.is_some());
         let fields: Vec<String> = reply.errors.iter().map(|e| engine_message(r.family, e).field).collect();
         assert!(fields.contains(&"n".to_string()) && fields.contains(&"data.sd".to_string()), "{fields:?}");
+    }
+
+    #[test]
+    fn each_familys_inputs_stand_in_its_own_order() {
+        let order: Vec<&str> = inputs().iter().map(|i| i.name).collect();
+        for e in &REGISTRY {
+            let mine: Vec<usize> = e.design.iter().map(|f| order.iter().position(|n| *n == f.input).unwrap()).collect();
+            assert!(mine.windows(2).all(|w| w[0] < w[1]), "{}: {:?}", e.id, mine);
+        }
     }
 }
