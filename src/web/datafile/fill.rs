@@ -10,6 +10,7 @@
 
 use super::super::{dom, form};
 use crate::engine::decision::Summary;
+use crate::engine::design::Family;
 
 #[derive(Debug, Clone, Default)]
 pub struct Fill {
@@ -35,32 +36,11 @@ pub fn figure(v: f64) -> String {
     if s.contains('.') { s.trim_end_matches('0').trim_end_matches('.').to_string() } else { s }
 }
 
-/// The page fields of a summary, with their texts.
-pub fn fields(s: &Summary) -> Vec<(&'static str, String)> {
-    match *s {
-        Summary::OneGroup { n, mean, sd } => {
-            let mut v = vec![("data.n", figure(n)), ("data.mean", figure(mean))];
-            if let Some(sd) = sd {
-                v.push(("data.sd", figure(sd)));
-            }
-            v
-        }
-        Summary::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 } => vec![
-            ("data.n1", figure(n1)),
-            ("data.mean1", figure(mean1)),
-            ("data.sd1", figure(sd1)),
-            ("data.n2", figure(n2)),
-            ("data.mean2", figure(mean2)),
-            ("data.sd2", figure(sd2)),
-        ],
-        Summary::Proportion { successes, trials } => vec![("data.successes", figure(successes)), ("data.trials", figure(trials))],
-        Summary::TwoProportions { successes1, trials1, successes2, trials2 } => vec![
-            ("data.successes1", figure(successes1)),
-            ("data.trials1", figure(trials1)),
-            ("data.successes2", figure(successes2)),
-            ("data.trials2", figure(trials2)),
-        ],
-    }
+/// The page inputs of a summary (the family's registry fields), with
+/// their texts.
+pub fn fields(family: Family, s: &Summary) -> Vec<(&'static str, String)> {
+    let entry = family.entry();
+    s.fields().into_iter().filter_map(|(key, v)| entry.data_field(key).map(|f| (f.input, figure(v)))).collect()
 }
 
 fn current(field: &str) -> String {
@@ -70,11 +50,11 @@ fn current(field: &str) -> String {
 impl Fill {
     /// Write the summary's figures into their fields, keeping what was
     /// there before (the first time only).
-    pub fn write(&mut self, s: &Summary) {
+    pub fn write(&mut self, family: Family, s: &Summary) {
         if !self.active {
             return;
         }
-        for (field, text) in fields(s) {
+        for (field, text) in fields(family, s) {
             // A figure the user typed over the file's one is theirs now.
             let edited = self.filled.iter().any(|(f, t)| f == field && *t != current(field));
             if edited {

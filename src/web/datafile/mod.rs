@@ -403,7 +403,7 @@ fn resummarise(and_recompute: bool) {
         let t0 = dom::now_ms();
         let sum = table::summarise(&t, &m, rows).map_err(|e| capital(&e.to_string()))?;
         dom::set_attr("app", "data-summarise-ms", Some(&format!("{:.1}", dom::now_ms() - t0)));
-        let values = if matches!(sh, Shape::Binary | Shape::TwoGroupsBinary) { None } else { table::group_values(&t, &m, rows).ok() };
+        let values = if sh.binary() { None } else { table::group_values(&t, &m, rows).ok() };
         Ok((sh, sum, values))
     });
     match outcome {
@@ -416,7 +416,9 @@ fn resummarise(and_recompute: bool) {
             with(|s| {
                 s.summary = Some(sum.clone());
                 s.charts = views;
-                s.fill.write(&sum.summary);
+                if let Some(f) = s.family {
+                    s.fill.write(f, &sum.summary);
+                }
             });
         }
         Err(msg) => {

@@ -291,7 +291,7 @@ pub fn mapping_waiting() {
 /// The figures per group and the notes.
 pub fn summary(s: &DataSummary, sh: Shape) {
     dom::set_text("data-summary-msg", "");
-    let binary = matches!(sh, Shape::Binary | Shape::TwoGroupsBinary);
+    let binary = sh.binary();
     let opt = |v: Option<f64>| v.map_or("—".to_string(), short);
     let rows: Vec<Vec<String>> = s
         .groups
