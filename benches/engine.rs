@@ -17,6 +17,10 @@
 //! `TERN_CHECK` line (c*, α*, β*, or n for the search) so that
 //! `scripts/bench` can show that both sides did the same work.
 //!
+//! With `BENCH_QUICK` set (`scripts/bench --quick`), every group warms up
+//! for 0.1 s and measures for 0.2 s: a check that the benches and the
+//! script run, with rough figures.
+//!
 //! `std::hint::black_box` is used: it is what criterion 0.8's own (now
 //! deprecated) `criterion::black_box` forwards to.
 
@@ -44,9 +48,21 @@ fn cut_value(cut: &Cut) -> f64 {
     }
 }
 
+/// A group's warm-up and measurement times: as given, or 0.1 s and 0.2 s
+/// with `BENCH_QUICK` set (the group settings override criterion's own
+/// `--warm-up-time` and `--measurement-time`).
+fn times(warm_up: Duration, measurement: Duration) -> (Duration, Duration) {
+    if std::env::var_os("BENCH_QUICK").is_some() {
+        (Duration::from_millis(100), Duration::from_millis(200))
+    } else {
+        (warm_up, measurement)
+    }
+}
+
 fn bench_nct_cdf(c: &mut Criterion) {
     let mut group = c.benchmark_group("nct_cdf");
-    group.warm_up_time(Duration::from_millis(500)).measurement_time(Duration::from_secs(2)).sample_size(50);
+    let (warm_up, measurement) = times(Duration::from_millis(500), Duration::from_secs(2));
+    group.warm_up_time(warm_up).measurement_time(measurement).sample_size(50);
     for (id, df, ncp, x) in NCT_POINTS {
         let dist = NoncentralT::new(df, ncp).expect("valid noncentral t");
         println!("TERN_CHECK\tnct_cdf/{id}\tcdf={:.12e}", dist.cdf(x));
@@ -60,7 +76,8 @@ fn bench_solve(c: &mut Criterion) {
     for group_name in ["solve", "solve_two_sided"] {
         let mut group = c.benchmark_group(group_name);
         // Auto sampling switches to flat sampling when one iteration is slow.
-        group.warm_up_time(Duration::from_millis(500)).measurement_time(Duration::from_secs(3)).sample_size(30);
+        let (warm_up, measurement) = times(Duration::from_millis(500), Duration::from_secs(3));
+        group.warm_up_time(warm_up).measurement_time(measurement).sample_size(30);
         for (name, design, n) in cases.iter().filter(|(name, ..)| name.split('/').next() == Some(group_name)) {
             let model = design.model(*n).unwrap_or_else(|e| panic!("{name}: model at n = {n}: {e}"));
             let (cut, errors, _) = solve(&model).unwrap_or_else(|e| panic!("{name}: solve: {e}"));
@@ -93,7 +110,8 @@ fn bench_search(c: &mut Criterion) {
         answer.solves
     );
     let mut group = c.benchmark_group("search");
-    group.warm_up_time(Duration::from_millis(500)).measurement_time(Duration::from_secs(5)).sample_size(10);
+    let (warm_up, measurement) = times(Duration::from_millis(500), Duration::from_secs(5));
+    group.warm_up_time(warm_up).measurement_time(measurement).sample_size(10);
     group.bench_function("mean_t_d0.3", |b| b.iter(|| sample_size(black_box(&design)).expect("search")));
     group.finish();
 }

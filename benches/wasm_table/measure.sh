@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
-# Size and speed of the data-file reader as WebAssembly (DEVELOPERS.md,
-# "Measured"). Needs the wasm32 target, npm's wasm-opt (scripts/install-tools
+# Size and speed of the data-file reader as WebAssembly (BENCHMARKS.md,
+# "Data files"). Needs the wasm32 target, npm's wasm-opt (scripts/install-tools
 # puts it in node_modules/.bin) and Node.
 #   bash benches/wasm_table/measure.sh
 set -euo pipefail

@@ -246,7 +246,10 @@ pub fn tern_answer(request: JsValue) -> Result<JsValue, JsValue> {
 }
 
 /// Panic on purpose, so that the browser test can check that the page
-/// survives one and keeps computing. Never called by the page itself.
+/// survives one and keeps computing. Never called by the page itself, and
+/// only in test builds (the `selftest` feature, off by default): the page
+/// users get has no such export (scripts/test-page checks dist/).
+#[cfg(feature = "selftest")]
 #[wasm_bindgen]
 pub fn tern_selftest_panic() {
     panic!("deliberate panic from tern_selftest_panic (browser test)");

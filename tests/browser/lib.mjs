@@ -12,10 +12,13 @@ const here = dirname(fileURLToPath(import.meta.url));
 export const root = resolve(here, '..', '..');
 export const dist = process.env.TERN_DIST ? resolve(process.env.TERN_DIST) : join(root, 'dist');
 export const artifacts = join(root, 'tests', 'artifacts');
+// The page with the `selftest` feature (scripts/build-selftest), for the
+// smoke test's panic check only.
+export const distSelftest = join(root, 'dist-selftest');
 
-export function startServer() {
+export function startServer(folder = dist) {
   return new Promise((res, rej) => {
-    const child = spawn(process.execPath, [join(root, 'scripts', 'static-server.mjs'), dist, '127.0.0.1', '0'], {
+    const child = spawn(process.execPath, [join(root, 'scripts', 'static-server.mjs'), folder, '127.0.0.1', '0'], {
       stdio: ['ignore', 'pipe', 'inherit'],
     });
     const timer = setTimeout(() => rej(new Error('static server did not start within 10 s')), 10000);

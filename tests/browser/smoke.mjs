@@ -7,14 +7,17 @@
 // an input change recomputes; bad values are flagged next to their field and
 // the page computes again once they are fixed; an inconclusive design; a new
 // design starts with empty limits; resizing redraws; a panic does not kill
-// the page. Saves screenshots under tests/artifacts/ and reports timings.
+// the page (on dist-selftest/, the build with the test-only export that
+// panics; dist/ must not have it). Saves screenshots under tests/artifacts/
+// and reports timings.
 //
-// Usage: node tests/browser/smoke.mjs   (after scripts/build-page)
+// Usage: node tests/browser/smoke.mjs   (after scripts/build-page and
+// scripts/build-selftest)
 
 import { mkdirSync, readdirSync, readFileSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import { root, dist, artifacts, startServer, stopServer, launch, text, type, check, run } from './lib.mjs';
+import { root, dist, distSelftest, artifacts, startServer, stopServer, launch, text, type, check, run } from './lib.mjs';
 
 mkdirSync(artifacts, { recursive: true });
 
@@ -58,6 +61,7 @@ const CHARTS = ['chart-sampling', 'chart-by-n', 'chart-tradeoff', 'chart-total']
 
 async function main() {
   if (!existsSync(join(dist, 'index.html'))) throw new Error('dist/index.html is missing: run scripts/build-page first');
+  if (!existsSync(join(distSelftest, 'index.html'))) throw new Error('dist-selftest/index.html is missing: run scripts/build-selftest first');
   // The module ships as base64 in a script (scripts/finish-page.mjs).
   // The two WebAssembly modules, as base64 scripts: the main one (the
   // target applies to it) and the spreadsheet reader, loaded beside it.
@@ -226,15 +230,26 @@ async function main() {
     await fullPage(page, 'new-design.png');
     check('no console errors before the panic test', errors.length === 0, errors.join(' | '));
 
-    // A panic does not kill the page.
-    await page.click('#load-demo');
-    await page.waitForTimeout(200);
-    await page.evaluate(() => { try { window.wasmBindings.tern_selftest_panic(); } catch (e) { /* expected */ } });
-    check('panic: the page says so', await page.locator('#page-alert').isVisible());
-    await type(page, '#f-beta_max', '0.05');
-    check('panic: the page still computes', /n = \d+/.test(await text(page, '#size-headline')) && !(await page.locator('#page-alert').isVisible()));
-
     check('no request left this machine', offsite.length === 0, offsite.join(' '));
+
+    // A panic does not kill the page: on the test build, which has an
+    // export that panics on purpose; the page users get has none.
+    check('panic: the page users get has no test export', await page.evaluate(() => typeof window.wasmBindings.tern_selftest_panic === 'undefined'));
+    const selftest = await startServer(distSelftest);
+    try {
+      const tpage = await context.newPage();
+      await tpage.goto(selftest.url);
+      await tpage.waitForSelector('#app[data-ready="true"]', { timeout: 20000 });
+      await tpage.click('#load-demo');
+      await tpage.waitForTimeout(200);
+      check('panic: the test build has the test export', await tpage.evaluate(() => typeof window.wasmBindings.tern_selftest_panic === 'function'));
+      await tpage.evaluate(() => { try { window.wasmBindings.tern_selftest_panic(); } catch (e) { /* expected */ } });
+      check('panic: the page says so', await tpage.locator('#page-alert').isVisible());
+      await type(tpage, '#f-beta_max', '0.05');
+      check('panic: the page still computes', /n = \d+/.test(await text(tpage, '#size-headline')) && !(await tpage.locator('#page-alert').isVisible()));
+    } finally {
+      await stopServer(selftest.child);
+    }
 
     console.log(`timing: first render of the demo ${readyMs.toFixed(0)} ms after navigation start`);
     const stats = (xs) => {
