@@ -258,6 +258,22 @@ fn table() -> Vec<Case> {
         case("json n = 2.5", Input::Json(r#"{"family": "mean_z", "alternative": "greater", "d": 0.5, "alpha_max": 0.05, "beta_max": 0.2, "n": 2.5}"#), &["n is 2.5", "whole number"]),
         case("json n negative", Input::Json(r#"{"family": "proportion_exact", "alternative": "greater", "theta0": 0.5, "theta1": 0.7, "alpha_max": 0.05, "beta_max": 0.2, "n": -3}"#), &["n is -3", "whole number"]),
         case("json n below the ratio's minimum", Input::Json(r#"{"family": "two_means_pooled", "alternative": "greater", "d": 0.5, "ratio": 0.01, "alpha_max": 0.05, "beta_max": 0.2, "n": 2}"#), &["n is 2", "from 101"]),
+        // Regression (found while hardening against any input): with ratio
+        // 1e-7 group 2 reaches its 2 observations only when n1 exceeds
+        // 10,000,000, so the search's smallest n1 exceeded its largest and
+        // `clamp` panicked ("min > max"), after `Design::n_min` had counted
+        // upward ten million times. `Design::new` now refuses such a ratio
+        // and names the smallest one that works.
+        case(
+            "regression: ratio so small that group 2 never reaches 2 (json)",
+            Input::Json(r#"{"family":"two_means_pooled","alternative":"greater","d":0.5,"alpha_max":0.05,"beta_max":0.2,"ratio":1e-7}"#),
+            &["ratio is 1e-7", "two_means_pooled", "at least 2 observations in group 2", "largest n searched, 10000000", "must be at least 1.0000000000000"],
+        ),
+        case(
+            "regression: ratio so small that group 2 never reaches 2 (welch, spec)",
+            Input::Spec(with(TwoMeansWelch, |s| s.ratio = Some(5e-8))),
+            &["ratio is 5e-8", "two_means_welch", "must be at least 1.0000000000000"],
+        ),
         case("json unknown family", Input::Json(r#"{"family": "mean_q", "alternative": "greater", "d": 0.5, "alpha_max": 0.05, "beta_max": 0.2}"#), &["family is \"mean_q\"", "one of mean_z"]),
         case("json unknown alternative", Input::Json(r#"{"family": "mean_t", "alternative": "bigger", "d": 0.5, "alpha_max": 0.05, "beta_max": 0.2}"#), &["alternative is \"bigger\"", "greater, less, two_sided"]),
         case("json typo with suggestion", Input::Json(r#"{"family": "mean_t", "alternative": "greater", "d": 0.5, "alpah_max": 0.05, "beta_max": 0.2}"#), &["alpah_max is not a known field", "did you mean alpha_max?"]),
@@ -373,6 +389,10 @@ fn valid_edge_designs_are_answered() {
         ("tiny effect, ratio 100", r#"{"family": "two_proportions", "alternative": "greater", "p1": 0.50001, "p2": 0.5, "ratio": 100, "alpha_max": 0.05, "beta_max": 0.2}"#),
         ("ratio 100 at the largest n", r#"{"family": "two_proportions", "alternative": "greater", "p1": 0.6, "p2": 0.4, "ratio": 100, "alpha_max": 0.05, "beta_max": 0.2, "n": 100000}"#),
         ("ratio 100 at the largest n, with curves", r#"{"family": "two_proportions", "alternative": "greater", "p1": 0.6, "p2": 0.4, "ratio": 100, "alpha_max": 0.05, "beta_max": 0.2, "n": 100000, "curves": true}"#),
+        // Group 2 at its minimum of 2 only for n1 near the bound: the
+        // smallest ratios Design::new accepts must still be answered.
+        ("ratio 2e-7, group 2 at its minimum", r#"{"family": "two_means_pooled", "alternative": "greater", "d": 0.5, "ratio": 2e-7, "alpha_max": 0.05, "beta_max": 0.2}"#),
+        ("ratio 1e-6, two proportions", r#"{"family": "two_proportions", "alternative": "greater", "p1": 0.6, "p2": 0.4, "ratio": 1e-6, "alpha_max": 0.05, "beta_max": 0.2}"#),
         ("smallest limits", r#"{"family": "mean_z", "alternative": "two_sided", "d": 1, "alpha_max": 1e-9, "beta_max": 1e-9}"#),
         ("limits just below 0.5", r#"{"family": "proportion_normal", "alternative": "less", "theta0": 0.5, "theta1": 0.4, "alpha_max": 0.4999, "beta_max": 0.4999}"#),
     ];

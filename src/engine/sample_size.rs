@@ -161,7 +161,8 @@ where
     let mut points: Vec<(f64, f64, f64)> = Vec::new();
     // How many probes in a row moved the same end of the bracket.
     let (mut same_side, mut last_side) = (0usize, None);
-    let mut n = start.clamp(lo, max);
+    // max(lo).min(max), not clamp: clamp panics if a caller ever passes lo > max.
+    let mut n = start.max(lo).min(max);
     for _ in 0..200 {
         let p = probe(n)?;
         if p.pass {
