@@ -90,7 +90,7 @@ fn decision_through_the_cli() {
 /// and rule (a few rows of tests/bad_input.rs).
 #[test]
 fn bad_designs_exit_2_with_the_message() {
-    let cases: [(&str, &str, &[&str]); 8] = [
+    let cases: [(&str, &str, &[&str]); 9] = [
         (
             "beta_max 0.7",
             r#"{"family": "mean_t", "alternative": "greater", "d": 0.5, "alpha_max": 0.05, "beta_max": 0.7}"#,
@@ -103,6 +103,12 @@ fn bad_designs_exit_2_with_the_message() {
         ("n = 2.5", r#"{"family": "mean_z", "alternative": "greater", "d": 0.5, "alpha_max": 0.05, "beta_max": 0.2, "n": 2.5}"#, &["n is 2.5", "whole number"]),
         ("successes > trials", r#"{"family": "proportion_exact", "alternative": "greater", "theta0": 0.5, "theta1": 0.7, "alpha_max": 0.05, "beta_max": 0.2, "data": {"successes": 12, "trials": 10}}"#, &["data.successes is 12", "number of trials"]),
         ("invalid JSON", r#"{"family": "#, &["not valid JSON"]),
+        // Regression: this ratio used to panic in the sample-size search (exit 101); see tests/bad_input.rs.
+        (
+            "ratio too small for group 2",
+            r#"{"family":"two_means_pooled","alternative":"greater","d":0.5,"alpha_max":0.05,"beta_max":0.2,"ratio":1e-7}"#,
+            &["ratio is 1e-7", "largest n searched, 10000000", "must be at least"],
+        ),
     ];
     let mut failures = Vec::new();
     for (name, input, fragments) in cases {

@@ -10,6 +10,7 @@ use super::design::Design;
 use super::dist::{Continuous, Discrete};
 use super::evaluate::{EvaluateError, Evaluation, solve, within};
 use super::model::Sampling;
+use super::sample_size::N_MAX_DISCRETE;
 use super::threshold::{Alternative, ContinuousCut, DiscreteCut, continuous_errors, discrete_errors};
 use serde::Serialize;
 
@@ -144,9 +145,13 @@ pub fn curves(design: &Design, at: &Evaluation, n_hi: u64) -> Result<Curves, Eva
 }
 
 /// α*, β* at about 80 values of n from the smallest admissible to `n_hi`
-/// (geometric spacing; every n for short ranges).
+/// (geometric spacing; every n for short ranges). For the exact binomial
+/// the curve stops at the search's bound, [`N_MAX_DISCRETE`]: an exact
+/// two-sided solve near n = 10,000,000 takes about a second, and the
+/// chart would need a score of them.
 fn by_n(design: &Design, n_hi: u64) -> Result<Vec<ByN>, EvaluateError> {
     let lo = design.n_min();
+    let n_hi = if design.family.discrete() { n_hi.min(N_MAX_DISCRETE) } else { n_hi };
     let hi = n_hi.max(lo + 1);
     let mut ns: Vec<u64> = Vec::new();
     let steps = 80u64;

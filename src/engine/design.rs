@@ -127,6 +127,12 @@ pub enum DesignError {
     Direction { field: &'static str, value: f64, alternative: &'static str, rule: String },
     #[error("give either d or theta1 with sigma, not both")]
     EffectTwice,
+    /// Group 2 would reach the family's smallest size only beyond [`N_MAX`].
+    #[error(
+        "ratio is {value:e}, but {family} needs at least {least} observations in group 2 (n2 = ⌈ratio·n1⌉), which this ratio \
+         reaches only when group 1 exceeds the largest n searched, {max}: the ratio must be at least {smallest:e}"
+    )]
+    RatioTooSmall { value: f64, family: &'static str, least: u64, max: u64, smallest: f64 },
 }
 
 /// The validated design.
@@ -230,7 +236,21 @@ impl Design {
         if let Some(rule) = rule {
             return Err(DesignError::Direction { field, value: shown, alternative: alternative.id(), rule });
         }
-        Ok(Design { family, alternative, effect, alpha_max, beta_max, weight, ratio, standardised })
+        let design = Design { family, alternative, effect, alpha_max, beta_max, weight, ratio, standardised };
+        if design.n_min() > N_MAX {
+            // The smallest ratio that works: (m − 1)/N_MAX, nudged up past
+            // the rounding slack of `n2` (a few ulps).
+            let least = family.n_min();
+            let mut smallest = (least - 1) as f64 / N_MAX as f64;
+            for _ in 0..64 {
+                if (Design { ratio: smallest, ..design }).n2(N_MAX).is_some_and(|n2| n2 >= least) {
+                    break;
+                }
+                smallest = smallest.next_up();
+            }
+            return Err(DesignError::RatioTooSmall { value: ratio, family: family.id(), least, max: N_MAX, smallest });
+        }
+        Ok(design)
     }
 
     /// n2 for a given n1: ⌈ratio·n1⌉ for two-group families.
@@ -244,11 +264,24 @@ impl Design {
     }
 
     /// Smallest admissible n1 (both groups must reach the family's minimum).
+    /// Closed form, then at most a few steps for floating-point rounding;
+    /// [`N_MAX`] + 1 when group 2 never reaches the minimum within N_MAX
+    /// (which [`Design::new`] refuses).
     pub fn n_min(&self) -> u64 {
         let m = self.family.n_min();
-        let mut n = m;
-        while self.n2(n).is_some_and(|n2| n2 < m) {
-            n += 1;
+        let reaches = |n: u64| self.n2(n).is_none_or(|n2| n2 >= m);
+        // ⌈ratio·n1·(1 − 1e-12)⌉ ≥ m once ratio·n1·(1 − 1e-12) > m − 1.
+        let bound = ((m - 1) as f64 / (self.ratio * (1.0 - 1e-12))).floor();
+        let mut n = if bound < N_MAX as f64 { (bound as u64 + 1).max(m) } else { N_MAX + 1 };
+        for _ in 0..4 {
+            if n > m && reaches(n - 1) {
+                n -= 1;
+            }
+        }
+        for _ in 0..4 {
+            if n <= N_MAX && !reaches(n) {
+                n += 1;
+            }
         }
         n
     }

@@ -161,7 +161,8 @@ where
     let mut points: Vec<(f64, f64, f64)> = Vec::new();
     // How many probes in a row moved the same end of the bracket.
     let (mut same_side, mut last_side) = (0usize, None);
-    let mut n = start.clamp(lo, max);
+    // max(lo).min(max), not clamp: clamp panics if a caller ever passes lo > max.
+    let mut n = start.max(lo).min(max);
     for _ in 0..200 {
         let p = probe(n)?;
         if p.pass {
@@ -265,16 +266,42 @@ fn randomized_power<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, upward: bool, 
     })
 }
 
+/// The miss rate 1 − power of the same test as [`randomized_power`],
+/// computed from the tails directly, so that it keeps its accuracy where
+/// the power rounds to 1 (β_max below 1e-16).
+fn randomized_miss<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, upward: bool, level: f64) -> Result<f64, EvaluateError> {
+    Ok(if upward {
+        // Accept X < j fully, X = j with probability 1 − γ.
+        let j = h0.quantile_upper(level)?;
+        let gamma = ((level - h0.sf(j)) / h0.pmf(j)).clamp(0.0, 1.0);
+        let below = if j == 0 { 0.0 } else { h1.cdf(j - 1) };
+        below + if gamma.is_finite() { (1.0 - gamma) * h1.pmf(j) } else { h1.pmf(j) }
+    } else {
+        // Accept X > j fully, X = j with probability 1 − γ.
+        let j = h0.quantile(level)?;
+        let below0 = if j == 0 { 0.0 } else { h0.cdf(j - 1) };
+        let gamma = ((level - below0) / h0.pmf(j)).clamp(0.0, 1.0);
+        h1.sf(j) + if gamma.is_finite() { (1.0 - gamma) * h1.pmf(j) } else { h1.pmf(j) }
+    })
+}
+
 /// The smallest n (minus a margin of 2 for rounding) at which the
 /// randomized most powerful test reaches power 1 − β_max; see
-/// [`randomized_power`].
-fn randomized_bound(design: &Design, lo: u64, max: u64) -> Result<Option<u64>, EvaluateError> {
+/// [`randomized_power`]. With `direct_miss` the miss rate is compared with
+/// β_max instead (the Youden criterion β* ≤ β_max, exact for tiny β_max);
+/// without it the power is compared with 1 − β_max in floating point, as
+/// the conventional criterion does.
+fn randomized_bound(design: &Design, lo: u64, max: u64, direct_miss: bool) -> Result<Option<u64>, EvaluateError> {
     let (theta0, theta1) = design.effect.thetas();
     let upward = theta1 > theta0;
     let target = 1.0 - design.beta_max;
     let ok = |n: u64| -> Result<bool, EvaluateError> {
         let m = design.model(n)?;
         match &m.sampling {
+            Sampling::Discrete { h0, h1 } if direct_miss => {
+                // A relative slack for the rounding of both miss rates.
+                Ok(randomized_miss(h0, h1, upward, design.alpha_max)? <= design.beta_max * (1.0 + 1e-9))
+            }
             Sampling::Discrete { h0, h1 } => Ok(randomized_power(h0, h1, upward, design.alpha_max)? >= target),
             Sampling::Continuous { .. } => Ok(true),
         }
@@ -292,9 +319,13 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     let ok = |n: u64, solves: &mut usize| -> Result<bool, EvaluateError> { Ok(within(design, &errors_at(design, n, solves)?)) };
     // Counts: no n below the randomized Neyman–Pearson bound can be
     // conclusive or reach the conventional power, so the scans start there.
-    let scan_from = if discrete { randomized_bound(design, lo, max)?.unwrap_or(max) } else { lo };
+    let scan_from = if discrete { randomized_bound(design, lo, max, false)?.unwrap_or(max) } else { lo };
     let youden = if discrete {
-        smallest_scan(scan_from, max, |n| ok(n, &mut solves))?
+        // No n whose most powerful test misses more than β_max can be conclusive.
+        match randomized_bound(design, scan_from, max, true)? {
+            Some(from) => smallest_scan(from, max, |n| ok(n, &mut solves))?,
+            None => None,
+        }
     } else {
         smallest_guided(lo, max, GUIDED_START, |n| youden_probe(design, n, &mut solves))?
     };
