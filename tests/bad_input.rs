@@ -265,7 +265,7 @@ fn table() -> Vec<Case> {
         ),
         case(
             "regression: ratio so small that group 2 never reaches 2 (welch, spec)",
-            Input::Spec(with(TwoMeansWelch, |s| s.ratio = Some(5e-8))),
+            Input::Spec(with(TwoMeansWelch, |s| s.set("ratio", 5e-8))),
             &["ratio is 5e-8", "two_means_welch", "must be at least 1.0000000000000"],
         ),
         case("json unknown family", Input::Json(r#"{"family": "mean_q", "alternative": "greater", "d": 0.5, "alpha_max": 0.05, "beta_max": 0.2}"#), &["family is \"mean_q\"", "one of mean_z"]),
@@ -427,15 +427,12 @@ fn valid_edge_designs_are_answered() {
     assert!(failures.is_empty(), "{}", failures.join("\n"));
 }
 
-/// Found by tests/fuzz.rs and not yet fixed: exact binomial designs whose
-/// sample-size scan solves almost every n up to 200,000 (no n is
-/// conclusive, or the first is far out), each a two-sided exact solve of
-/// 40–130 µs: 5–20 s natively, past the fuzz tests' 10 s bound. They are
-/// answered, without a panic; what is missing is speed (a cheaper two-sided
-/// exact solve, or a work budget for the scan that says when it ran out).
-/// Run with `cargo test --test bad_input -- --ignored`.
+/// Found by tests/fuzz.rs: exact binomial designs whose sample-size scan
+/// solved almost every n up to 200,000 (no n is conclusive, or the first is
+/// far out), each a two-sided exact solve of 40–130 µs: 5–20 s natively,
+/// past the fuzz tests' 10 s bound. The scan now has a budget of threshold
+/// solves (`sample_size::DISCRETE_SOLVE_BUDGET`) and says where it stopped.
 #[test]
-#[ignore = "slow: 5-20 s per design until the exact two-sided scan is faster"]
 fn exact_binomial_worst_scans_are_answered() {
     let slow = [
         // α_max = 5e-324: no Youden cut has α* that small before 200,000 (156,116 solves).
@@ -450,7 +447,14 @@ fn exact_binomial_worst_scans_are_answered() {
         match catch_unwind(|| run(text)) {
             Err(_) => failures.push(format!("{name}: PANICKED")),
             Ok(Err(e)) => failures.push(format!("{name}: refused: {e}")),
-            Ok(Ok(_)) => {}
+            Ok(Ok(out)) => {
+                let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+                let ss = &v["sample_size"];
+                let said = ss["notes"].as_array().is_some_and(|n| n.iter().any(|x| x.as_str().is_some_and(|t| t.contains("budget"))));
+                if !(ss["stopped_at"].is_u64() && said) {
+                    failures.push(format!("{name}: the search neither finished nor said where its budget ran out: {ss}"));
+                }
+            }
         }
     }
     assert!(failures.is_empty(), "{}", failures.join("\n"));

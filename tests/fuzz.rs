@@ -34,7 +34,8 @@ use std::sync::atomic::{AtomicUsize, Ordering};
 use std::sync::mpsc::{RecvTimeoutError, channel};
 use std::time::{Duration, Instant};
 use tern::engine::design::{Design, DesignSpec, Family, N_MAX};
-use tern::engine::request::{DESIGN_FIELDS, run};
+use tern::engine::family::{Check, Entry, Field, Input, REGISTRY};
+use tern::engine::request::{design_fields, run};
 use tern::engine::table::{
     DecimalMark, Mapping, ReadOptions, SheetCell, SheetGrid, Table, TableBuilder, group_values, histogram, is_spreadsheet,
     normal_quantile_points, parse_number, read_grid, read_table, summarise,
@@ -156,17 +157,12 @@ fn string_token() -> BoxedStrategy<String> {
     .boxed()
 }
 
-const FAMILY_IDS: [&str; 8] =
-    ["mean_z", "mean_t", "paired_t", "two_means_pooled", "two_means_welch", "proportion_exact", "proportion_normal", "two_proportions"];
-
-const DATA_FIELDS: [&str; 15] = [
-    "n", "mean", "sd", "n1", "mean1", "sd1", "n2", "mean2", "sd2", "successes", "trials", "successes1", "trials1", "successes2",
-    "trials2",
-];
+/// Every family id, from the registry.
+static FAMILY_IDS: std::sync::LazyLock<Vec<&'static str>> = std::sync::LazyLock::new(|| REGISTRY.iter().map(|e| e.id).collect());
 
 /// A key: a known request field, a summary field, or any text.
 fn key_token() -> BoxedStrategy<String> {
-    let known: Vec<&str> = DESIGN_FIELDS.iter().copied().chain(["n", "data", "curves"]).chain(DATA_FIELDS).collect();
+    let known: Vec<&str> = design_fields().into_iter().chain(["n", "data", "curves"]).chain(tern::engine::family::data_keys()).collect();
     prop_oneof![
         4 => prop::sample::select(known).prop_map(|s| format!("\"{s}\"")),
         1 => string_token(),
@@ -367,7 +363,7 @@ fn data(family: &'static str) -> BoxedStrategy<String> {
 /// A request of one family and alternative with random field values.
 fn structured_for(family: &'static str, alternative: &'static str) -> BoxedStrategy<String> {
     let two_groups = matches!(family, "two_means_pooled" | "two_means_welch" | "two_proportions");
-    let stray = prop::sample::select(DESIGN_FIELDS.to_vec());
+    let stray = prop::sample::select(design_fields());
     (
         effect(family, alternative),
         value(FieldKind::Limit),
@@ -393,10 +389,50 @@ fn structured_for(family: &'static str, alternative: &'static str) -> BoxedStrat
         .boxed()
 }
 
-/// Every family × alternative, each with random values.
+/// A request built from a registry entry alone: each design field and
+/// summary figure drawn by its `Check` and how it is read, so that a family
+/// added to the registry is fuzzed without a line here.
+fn registry_request(entry: &'static Entry) -> BoxedStrategy<String> {
+    let kind = |f: &Field| match (f.check, f.read) {
+        (_, Input::Whole) | (Check::Whole, _) => FieldKind::Count,
+        (Check::Positive, _) => FieldKind::Spread,
+        (Check::OpenUnit, _) => FieldKind::Proportion,
+        (Check::Ratio, _) => FieldKind::Ratio,
+        (Check::Limit, _) => FieldKind::Limit,
+        (Check::Finite, _) => FieldKind::Mean,
+    };
+    let design: Vec<BoxedStrategy<Option<(&'static str, String)>>> = entry
+        .design
+        .iter()
+        .map(|f| prop::option::weighted(if f.required { 0.97 } else { 0.5 }, value(kind(f))).prop_map(move |v| v.map(|v| (f.key, v))).boxed())
+        .collect();
+    let data: Vec<BoxedStrategy<Option<(&'static str, String)>>> = entry
+        .data
+        .iter()
+        .map(|f| prop::option::weighted(0.95, value(kind(f))).prop_map(move |v| v.map(|v| (f.key, v))).boxed())
+        .collect();
+    (design, prop::option::weighted(0.5, data), prop::sample::select(ALTERNATIVES.to_vec()), value(FieldKind::Limit), value(FieldKind::Limit), prop::option::weighted(0.3, value(FieldKind::Count)))
+        .prop_map(move |(design, data, alternative, alpha, beta, n)| {
+            let mut fields = vec![("family", format!("\"{}\"", entry.id)), ("alternative", format!("\"{alternative}\"")), ("alpha_max", alpha), ("beta_max", beta)];
+            fields.extend(design.into_iter().flatten());
+            fields.extend(n.map(|n| ("n", n)));
+            if let Some(data) = data {
+                let inner: Vec<String> = data.into_iter().flatten().map(|(k, v)| format!("\"{k}\": {v}")).collect();
+                fields.push(("data", format!("{{{}}}", inner.join(", "))));
+            }
+            fields.push(("curves", "true".into()));
+            let inner: Vec<String> = fields.into_iter().map(|(k, v)| format!("\"{k}\": {v}")).collect();
+            format!("{{{}}}", inner.join(", "))
+        })
+        .boxed()
+}
+
+/// Every family × alternative, each with random values, and every registry
+/// entry drawn from its fields alone.
 fn structured_request() -> BoxedStrategy<String> {
-    let all: Vec<BoxedStrategy<String>> =
+    let mut all: Vec<BoxedStrategy<String>> =
         FAMILY_IDS.iter().flat_map(|f| ALTERNATIVES.iter().map(move |a| structured_for(f, a))).collect();
+    all.extend(REGISTRY.iter().map(registry_request));
     prop::strategy::Union::new(all).boxed()
 }
 
@@ -681,20 +717,19 @@ fn smallest_n_matches_its_definition() {
     let ratio = prop_oneof![1e-8f64..1e-5, 1e-5f64..1.0, 1.0f64..=100.0, prop::sample::select(vec![1e-7, 1.0000000000000002e-7, 2e-7, 0.01, 1.0 / 3.0, 100.0])];
     let family = prop::sample::select(vec![Family::TwoMeansPooled, Family::TwoMeansWelch, Family::TwoProportions]);
     must(&mut r, &(family, ratio), |(family, ratio)| {
-        let mut spec = DesignSpec {
-            family: Some(family),
-            alternative: Some(Alternative::Greater),
-            alpha_max: Some(0.05),
-            beta_max: Some(0.2),
-            ratio: Some(ratio),
-            ..Default::default()
-        };
+        let mut spec =
+            DesignSpec::new(family, Alternative::Greater).with("alpha_max", 0.05).with("beta_max", 0.2).with("ratio", ratio);
         match family {
             Family::TwoMeansWelch => {
-                (spec.theta0, spec.theta1, spec.sigma1, spec.sigma2) = (Some(0.0), Some(1.0), Some(1.0), Some(2.0));
+                for (k, v) in [("theta0", 0.0), ("theta1", 1.0), ("sigma1", 1.0), ("sigma2", 2.0)] {
+                    spec.set(k, v);
+                }
             }
-            Family::TwoProportions => (spec.p1, spec.p2) = (Some(0.6), Some(0.4)),
-            _ => spec.d = Some(0.5),
+            Family::TwoProportions => {
+                spec.set("p1", 0.6);
+                spec.set("p2", 0.4);
+            }
+            _ => spec.set("d", 0.5),
         }
         let m = family.n_min();
         match Design::new(&spec) {
@@ -709,7 +744,7 @@ fn smallest_n_matches_its_definition() {
                 let msg = e.to_string();
                 prop_assert!(msg.contains("ratio is"), "ratio {ratio} refused for another reason: {msg}");
                 // Refused only when group 2 cannot reach m within the bound.
-                let d = Design::new(&DesignSpec { ratio: Some(1.0), ..spec }).map_err(|e| TestCaseError::fail(e.to_string()))?;
+                let d = Design::new(&spec.clone().with("ratio", 1.0)).map_err(|e| TestCaseError::fail(e.to_string()))?;
                 let at_bound = Design { ratio, ..d }.n2(N_MAX).unwrap_or(0);
                 prop_assert!(at_bound < m, "ratio {ratio} refused although n2(N_MAX) = {at_bound}: {msg}");
             }

@@ -24,6 +24,15 @@ const GUIDED_START: u64 = 10;
 /// Largest n scanned for the exact binomial (one solve per n).
 pub const N_MAX_DISCRETE: u64 = 200_000;
 
+/// Threshold solves the count families' Youden scan and stable-from check
+/// may use together. Past it the search stops and says at which n: a solve
+/// costs from about 1 µs to 0.6 ms natively (two-sided, laws far apart,
+/// n near 10^5), so without it an extreme design (a limit of 1e-300) kept
+/// the page busy for minutes. p0 = .5 against .51 two-sided finds its
+/// Youden n (30,934) within it and checks the stable range up to about
+/// 40,500 instead of 61,868, saying so.
+pub const DISCRETE_SOLVE_BUDGET: usize = 25_000;
+
 /// A sample size for both groups.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct GroupSizes {
@@ -55,6 +64,10 @@ pub struct SampleSize {
     pub notes: Vec<String>,
     /// Threshold solves used, for diagnostics and benchmarks.
     pub solves: usize,
+    /// Counts: the n at which the scan stopped because its budget of
+    /// threshold solves ([`DISCRETE_SOLVE_BUDGET`]) ran out; no smaller n is
+    /// conclusive. `None`: the search ran its course.
+    pub stopped_at: Option<u64>,
 }
 
 fn sizes(design: &Design, n1: u64) -> GroupSizes {
@@ -320,10 +333,24 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     // Counts: no n below the randomized Neyman–Pearson bound can be
     // conclusive or reach the conventional power, so the scans start there.
     let scan_from = if discrete { randomized_bound(design, lo, max, false)?.unwrap_or(max) } else { lo };
+    let mut stopped_at = None;
     let youden = if discrete {
         // No n whose most powerful test misses more than β_max can be conclusive.
         match randomized_bound(design, scan_from, max, true)? {
-            Some(from) => smallest_scan(from, max, |n| ok(n, &mut solves))?,
+            Some(from) => {
+                let mut found = None;
+                for n in from..=max {
+                    if solves >= DISCRETE_SOLVE_BUDGET {
+                        stopped_at = Some(n);
+                        break;
+                    }
+                    if ok(n, &mut solves)? {
+                        found = Some(n);
+                        break;
+                    }
+                }
+                found
+            }
             None => None,
         }
     } else {
@@ -332,9 +359,16 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     let (mut stable_from, mut checked_to) = (None, None);
     if discrete {
         if let Some(first) = youden {
-            let bound = (2 * first).max(first + 100).min(max);
+            let mut bound = (2 * first).max(first + 100).min(max);
             let mut last_fail = None;
             for n in first..=bound {
+                // The budget may cut the check short: the bound reported is
+                // then the last n checked, and a note says so.
+                if solves >= DISCRETE_SOLVE_BUDGET && n > first {
+                    bound = n - 1;
+                    stopped_at = Some(n);
+                    break;
+                }
                 if !ok(n, &mut solves)? {
                     last_fail = Some(n);
                 }
@@ -362,7 +396,23 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         Some(n) => Some(errors_at(design, n, &mut solves)?),
         None => None,
     };
-    let notes = notes(design, youden, conventional, stable_from, balancing_weight, max, conventional_errors);
+    let mut notes = notes(design, youden, conventional, stable_from, balancing_weight, max, conventional_errors);
+    if let Some(n) = stopped_at {
+        let said = match youden {
+            None => format!(
+                "The search stopped at n = {n} per group: its budget of {DISCRETE_SOLVE_BUDGET} threshold solves ran out before any n was \
+                 conclusive (no smaller n is). Larger limits or a larger effect need far smaller samples."
+            ),
+            Some(_) => format!(
+                "Every n from the stable point was checked only up to {}: the search's budget of {DISCRETE_SOLVE_BUDGET} threshold \
+                 solves ran out there.",
+                n - 1
+            ),
+        };
+        // The budget's note replaces the claim that no n up to the bound works.
+        notes.retain(|x| !(youden.is_none() && x.starts_with("No sample size up to")));
+        notes.insert(0, said);
+    }
     Ok(SampleSize {
         youden: youden.map(|n| sizes(design, n)),
         searched_up_to: max,
@@ -373,6 +423,7 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         balancing_weight,
         notes,
         solves,
+        stopped_at,
     })
 }
 
