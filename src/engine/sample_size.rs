@@ -357,25 +357,24 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         smallest_guided(lo, max, GUIDED_START, |n| youden_probe(design, n, &mut solves))?
     };
     let (mut stable_from, mut checked_to) = (None, None);
-    if discrete {
-        if let Some(first) = youden {
-            let mut bound = (2 * first).max(first + 100).min(max);
-            let mut last_fail = None;
-            for n in first..=bound {
-                // The budget may cut the check short: the bound reported is
-                // then the last n checked, and a note says so.
-                if solves >= DISCRETE_SOLVE_BUDGET && n > first {
-                    bound = n - 1;
-                    stopped_at = Some(n);
-                    break;
-                }
-                if !ok(n, &mut solves)? {
-                    last_fail = Some(n);
-                }
+    if discrete && let Some(first) = youden {
+        let bound = (2 * first).max(first + 100).min(max);
+        let mut last_fail = None;
+        let mut checked = bound;
+        for n in first..=bound {
+            // The budget may cut the check short: the bound reported is
+            // then the last n checked, and a note says so.
+            if solves >= DISCRETE_SOLVE_BUDGET && n > first {
+                checked = n - 1;
+                stopped_at = Some(n);
+                break;
             }
-            stable_from = Some(last_fail.map_or(first, |f| f + 1));
-            checked_to = Some(bound);
+            if !ok(n, &mut solves)? {
+                last_fail = Some(n);
+            }
         }
+        stable_from = Some(last_fail.map_or(first, |f| f + 1));
+        checked_to = Some(checked);
     }
     let target = 1.0 - design.beta_max;
     let conv_ok = |n: u64| -> Result<bool, EvaluateError> { Ok(conventional_power(design, n)? >= target) };
@@ -490,12 +489,12 @@ fn notes(
         }
         _ => {}
     }
-    if let (Some(y), Some(s)) = (youden, stable) {
-        if s > y {
-            notes.push(format!(
-                "Exact binomial errors saw-tooth with n: n = {y} is conclusive, but some larger n are not; every n from {s} on is conclusive (checked up to the bound stated)."
-            ));
-        }
+    if let (Some(y), Some(s)) = (youden, stable)
+        && s > y
+    {
+        notes.push(format!(
+            "Exact binomial errors saw-tooth with n: n = {y} is conclusive, but some larger n are not; every n from {s} on is conclusive (checked up to the bound stated)."
+        ));
     }
     notes
 }
