@@ -459,3 +459,28 @@ fn exact_binomial_worst_scans_are_answered() {
     }
     assert!(failures.is_empty(), "{}", failures.join("\n"));
 }
+
+/// Found by the long fuzz run (`TERN_FUZZ_MINUTES=10`, 2026-12-03) and not
+/// yet fixed: exact two-sided designs whose laws lie far apart, where each
+/// threshold solve falls back to walking the whole mass window between
+/// them (hundreds of thousands of counts at n in the millions). They are
+/// answered, without a panic, but took over 10 s each on a loaded machine:
+/// the search's budget counts solves, not the work inside one. What is
+/// missing: a two-sided walk that skips the stretch between the two laws'
+/// windows, or a budget of counts walked. Run with
+/// `cargo test --release --test bad_input -- --ignored`.
+#[test]
+#[ignore = "slow: over 10 s per design until the far-apart two-sided exact walk is cheaper"]
+fn exact_two_sided_far_apart_is_answered() {
+    let slow = [
+        ("p0 .02 against .005, alpha_max 5e-324", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.02, "theta1": 0.005, "alpha_max": 5e-324, "beta_max": 0.001}"#),
+        ("n = 5,000,000, p0 .02 against .385", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.02, "theta1": 0.3851879111385597, "alpha_max": 5e-324, "beta_max": 0.00808077874969846, "weight": 0.999999, "n": 5000000}"#),
+    ];
+    for (name, text) in slow {
+        match catch_unwind(|| run(text)) {
+            Err(_) => panic!("{name}: PANICKED"),
+            Ok(Err(e)) => panic!("{name}: refused: {e}"),
+            Ok(Ok(_)) => {}
+        }
+    }
+}
