@@ -39,8 +39,14 @@ pub struct PageInput {
 }
 
 /// Every input the page has, each once: the registry's design and data
-/// fields (by their page names), the limits and the sample size.
-pub fn inputs() -> Vec<PageInput> {
+/// fields (by their page names), the limits and the sample size. Built
+/// once (the page asks on every keystroke).
+pub fn inputs() -> &'static [PageInput] {
+    static INPUTS: std::sync::LazyLock<Vec<PageInput>> = std::sync::LazyLock::new(build_inputs);
+    &INPUTS
+}
+
+fn build_inputs() -> Vec<PageInput> {
     let mut v: Vec<PageInput> = Vec::new();
     let mut push = |f: &Field, part: Part| {
         if !v.iter().any(|i| i.name == f.input) {

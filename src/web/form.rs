@@ -92,12 +92,16 @@ pub fn build() -> Result<(), JsValue> {
 }
 
 /// The form's text, as the model reads it.
+/// The form's text, as the model reads it: the inputs the chosen family
+/// shows (the others are hidden and not read).
 pub fn text() -> FormText {
+    let family = dom::checked_radio("family");
+    let shown = model::shown(family.as_deref().and_then(Family::from_id));
     FormText {
-        family: dom::checked_radio("family"),
+        family,
         alternative: dom::checked_radio("alternative"),
         unit: dom::value("f-unit"),
-        values: model::inputs().iter().map(|i| (i.name.to_string(), dom::value(&input_id(i.name)))).collect(),
+        values: shown.iter().map(|name| (name.to_string(), dom::value(&input_id(name)))).collect(),
     }
 }
 
