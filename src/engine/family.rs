@@ -615,11 +615,6 @@ impl Family {
         all
     };
 
-    /// Every family, in the registry's order.
-    pub fn all() -> impl Iterator<Item = Family> {
-        REGISTRY.iter().map(|e| e.family)
-    }
-
     /// The family's registry entry.
     pub fn entry(self) -> &'static Entry {
         // The registry lists the families in the enum's order (a unit test
@@ -720,11 +715,6 @@ pub fn data_keys() -> Vec<&'static str> {
         }
     }
     keys
-}
-
-/// A design field's static name, whatever family it belongs to.
-pub fn design_key(key: &str) -> Option<&'static str> {
-    design_keys().into_iter().find(|k| *k == key)
 }
 
 /// A label with the unit put in: `{u}` becomes " (days)" or nothing.
