@@ -334,18 +334,21 @@ pub fn design_json(spec: &DesignSpec, n: Option<f64>) -> Map<String, Value> {
     if let Some(a) = spec.alternative {
         m.insert("alternative".into(), Value::String(a.id().into()));
     }
-    let number = |v: f64| {
-        if v.fract() == 0.0 && v.abs() < 9.0e15 { Value::from(v as i64) } else { serde_json::Number::from_f64(v).map_or(Value::Null, Value::Number) }
-    };
     for key in design_fields() {
         if let Some(v) = spec.get(key) {
-            m.insert(key.into(), number(v));
+            m.insert(key.into(), json_number(v));
         }
     }
     if let Some(n) = n {
-        m.insert("n".into(), number(n));
+        m.insert("n".into(), json_number(n));
     }
     m
+}
+
+/// A number as the contract writes it: whole numbers (below 2^53) as
+/// integers, so counts read back exactly; a non-finite value as null.
+pub fn json_number(v: f64) -> Value {
+    if v.fract() == 0.0 && v.abs() < 9.0e15 { Value::from(v as i64) } else { serde_json::Number::from_f64(v).map_or(Value::Null, Value::Number) }
 }
 
 /// Parse, answer and serialise: the whole contract in one call.

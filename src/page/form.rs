@@ -350,12 +350,12 @@ pub fn design_inputs(family: Option<Family>, values: &[(String, f64)]) -> Vec<(S
     out
 }
 
-/// A number as JSON writes it (so that what comes back is what was kept).
+/// A number as the contract writes it (so that what comes back is what
+/// was kept).
 fn number_text(v: f64) -> String {
-    if v.fract() == 0.0 && v.abs() < 9.0e15 {
-        format!("{}", v as i64)
-    } else {
-        serde_json::Number::from_f64(v).map_or_else(|| v.to_string(), |n| n.to_string())
+    match crate::engine::request::json_number(v) {
+        serde_json::Value::Null => v.to_string(),
+        x => x.to_string(),
     }
 }
 
