@@ -150,7 +150,7 @@ fn part_of(name: &str) -> Option<Part> {
     match name {
         "family" | "alternative" | "" => Some(Part::Design),
         "data" => Some(Part::Data),
-        _ => inputs().into_iter().find(|i| i.name == name).map(|i| i.part),
+        _ => inputs().iter().find(|i| i.name == name).map(|i| i.part),
     }
 }
 
