@@ -444,7 +444,8 @@ fn exact_binomial_worst_scans_are_answered() {
     ];
     let mut failures = Vec::new();
     for (name, text) in slow {
-        match catch_unwind(|| run(text)) {
+        let r = catch_unwind(|| run(text));
+        match r {
             Err(_) => failures.push(format!("{name}: PANICKED")),
             Ok(Err(e)) => failures.push(format!("{name}: refused: {e}")),
             Ok(Ok(out)) => {
@@ -460,20 +461,16 @@ fn exact_binomial_worst_scans_are_answered() {
     assert!(failures.is_empty(), "{}", failures.join("\n"));
 }
 
-/// Found by the long fuzz run (`TERN_FUZZ_MINUTES=10`, 2026-12-03) and not
-/// yet fixed: exact two-sided designs whose laws lie far apart, where each
-/// threshold solve falls back to walking the whole mass window between
-/// them (thousands of counts per solve over a scan of 25,000 solves, or
-/// hundreds of thousands at n in the millions), and one t design whose
-/// standardised effect is about 4e24 (each of the 80 solves of its curve
-/// of errors against n takes about 30 ms). They are answered, without a
-/// panic, in 3–8 s natively, but took over 10 s each in the test profile on
-/// a loaded machine: the search's budget counts solves, not the work inside
-/// one. What is missing: a budget of work (counts walked, quadrature
-/// nodes), or cheaper solves for laws far apart. Run with
-/// `cargo test --release --test bad_input -- --ignored`.
+/// Found by the long fuzz run (`TERN_FUZZ_MINUTES=10`, 2026-12-03), over
+/// 10 s each under load before the fix: exact two-sided designs whose laws
+/// lie far apart, where each solve walked the whole stretch of massless
+/// counts between the two laws' windows (and listed every region ending
+/// there as a tie: 8 million at n = 10,000,000, 1.5 GB of JSON), one whose
+/// conventional n lies 66,000 past the scan's start (α limit 5e-324), and
+/// one t design whose standardised effect is about 4e24. Each is answered
+/// within its budgets; the tie lists stay short and the stopped searches
+/// say so.
 #[test]
-#[ignore = "slow: over 10 s per design until the far-apart two-sided exact walk is cheaper"]
 fn far_apart_laws_are_answered() {
     let slow = [
         ("p0 .02 against .286, beta_max 5e-324, n = 153, curves", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.02, "theta1": 0.28592155067465647, "alpha_max": 0.49999999999999994, "beta_max": 5e-324, "n": 153, "curves": true}"#),
@@ -484,10 +481,16 @@ fn far_apart_laws_are_answered() {
         ("n = 5,000,000, p0 .02 against .385", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.02, "theta1": 0.3851879111385597, "alpha_max": 5e-324, "beta_max": 0.00808077874969846, "weight": 0.999999, "n": 5000000}"#),
     ];
     for (name, text) in slow {
-        match catch_unwind(|| run(text)) {
+        let r = catch_unwind(|| run(text));
+        match r {
             Err(_) => panic!("{name}: PANICKED"),
             Ok(Err(e)) => panic!("{name}: refused: {e}"),
-            Ok(Ok(_)) => {}
+            Ok(Ok(answer)) => {
+                assert!(answer.len() < 1_000_000, "{name}: an answer of {} bytes", answer.len());
+                if name.contains("alpha_max 5e-324") {
+                    assert!(answer.contains("The conventional test's search stopped at n = "), "{name}: {answer}");
+                }
+            }
         }
     }
 }

@@ -4,8 +4,8 @@
 use super::dist::{Continuous, Discrete};
 use super::root::{Tolerance, brent, expand};
 use super::threshold::{
-    Alternative, ContinuousCut, DiscreteCut, Errors, ThresholdError, continuous_errors, discrete_errors, mass_window,
-    same_distance,
+    Alternative, ContinuousCut, DiscreteCut, Errors, ThresholdError, continuous_errors, discrete_errors,
+    first_true, mass_window,
 };
 
 /// The level-α test of a continuous statistic. Two-sided: the half-width c
@@ -52,19 +52,33 @@ pub fn discrete_level<D0: Discrete, D1: Discrete>(
             // Counts outside [first, top] carry negligible H0 mass: they
             // cannot move α across any level a user can state.
             let (first, top) = mass_window(h0);
-            let mut distances: Vec<f64> = (first..=top).map(|x| (x as f64 - centre).abs()).collect();
-            distances.sort_by(f64::total_cmp);
-            distances.dedup_by(|a, b| same_distance(*a, *b, centre));
             let region = |c: f64| DiscreteCut::outside(centre, c, support);
-            // α falls as the half-width grows: bisect for the first fit.
-            let (mut a, mut b) = (0usize, distances.len());
-            while a < b {
-                let m = (a + b) / 2;
-                if discrete_errors(h0, h1, region(distances[m])).alpha <= level { b = m } else { a = m + 1 }
-            }
-            match distances.get(a) {
-                Some(&c) => region(c),
-                None => DiscreteCut::Outside { centre, half_width: f64::INFINITY, low: None, high: None },
+            let fits = |c: f64| discrete_errors(h0, h1, region(c)).alpha <= level;
+            // α falls as the half-width grows. The half-widths that mean
+            // something are the counts' distances from the centre; on each
+            // side they grow with the count's distance, so each side is
+            // bisected for its first fit and the nearer of the two is the
+            // smallest half-width that fits (O(log n) tails, no list).
+            let middle = (centre.floor().max(0.0) as u64).clamp(first, top);
+            let below = if middle as f64 <= centre {
+                // The largest x ≤ middle whose distance fits.
+                match first_true(first, middle, |x| !fits(centre - x as f64)) {
+                    Some(x) => x.checked_sub(1).filter(|&x| x >= first),
+                    None => Some(middle),
+                }
+                .map(|x| centre - x as f64)
+            } else {
+                None
+            };
+            let above = middle
+                .checked_add(u64::from(middle as f64 <= centre))
+                .filter(|&x| x <= top)
+                .and_then(|lo| first_true(lo, top, |x| fits(x as f64 - centre)))
+                .map(|x| x as f64 - centre);
+            match (below, above) {
+                (Some(b), Some(a)) => region(b.min(a)),
+                (Some(c), None) | (None, Some(c)) => region(c),
+                (None, None) => DiscreteCut::Outside { centre, half_width: f64::INFINITY, low: None, high: None },
             }
         }
     };

@@ -33,6 +33,14 @@ pub const N_MAX_DISCRETE: u64 = 200_000;
 /// 40,500 instead of 61,868, saying so.
 pub const DISCRETE_SOLVE_BUDGET: usize = 25_000;
 
+/// Sample sizes the count families' conventional scan may try, from the
+/// randomized Neyman–Pearson bound on. Each costs a bisection of O(log n)
+/// tails; a design whose conventional n lies tens of thousands past that
+/// bound (a level of 1e-300) stops here and says so. Ordinary designs need
+/// a few hundred at most: the bound is the power of the best test at the
+/// same level.
+pub const CONVENTIONAL_SCAN_BUDGET: u64 = 25_000;
+
 /// A sample size for both groups.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct GroupSizes {
@@ -378,8 +386,14 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     }
     let target = 1.0 - design.beta_max;
     let conv_ok = |n: u64| -> Result<bool, EvaluateError> { Ok(conventional_power(design, n)? >= target) };
+    let mut conventional_stopped_at = None;
     let conventional = if discrete {
-        smallest_scan(scan_from, max, conv_ok)?
+        let last = scan_from.saturating_add(CONVENTIONAL_SCAN_BUDGET - 1).min(max);
+        let found = smallest_scan(scan_from, last, conv_ok)?;
+        if found.is_none() && last < max {
+            conventional_stopped_at = Some(last + 1);
+        }
+        found
     } else {
         smallest_guided(lo, max, GUIDED_START, |n| conventional_probe(design, n))?
     };
@@ -411,6 +425,13 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         // The budget's note replaces the claim that no n up to the bound works.
         notes.retain(|x| !(youden.is_none() && x.starts_with("No sample size up to")));
         notes.insert(0, said);
+    }
+    if let Some(n) = conventional_stopped_at {
+        notes.push(format!(
+            "The conventional test's search stopped at n = {n} per group: its budget of {CONVENTIONAL_SCAN_BUDGET} sample sizes ran \
+             out before its power reached {} (no smaller n reaches it).",
+            sig3(target)
+        ));
     }
     Ok(SampleSize {
         youden: youden.map(|n| sizes(design, n)),

@@ -23,7 +23,7 @@ mod region;
 mod two_sided_counts;
 
 pub use continuous::solve_continuous;
-pub(crate) use mass_window::mass_window;
+pub(crate) use mass_window::{first_true, mass_window};
 pub use region::{ContinuousCut, DiscreteCut, Errors, continuous_errors, discrete_errors, distance_tolerance, same_distance};
 
 use super::dist::{DistError, Discrete};
