@@ -478,6 +478,8 @@ fn far_apart_laws_are_answered() {
         ("p0 .02 against .258, beta_max 5e-324", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.02, "theta1": 0.25783388162875337, "alpha_max": 0.1700987882260526, "beta_max": 5e-324, "weight": 0.04594054373328826}"#),
         ("p0 .839 against .025, n = 10,000,000, curves", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.8388458278324633, "theta1": 0.025, "alpha_max": 0.001, "beta_max": 0.001, "n": 10000000, "curves": true}"#),
         ("p0 .02 against .005, alpha_max 5e-324", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.02, "theta1": 0.005, "alpha_max": 5e-324, "beta_max": 0.001}"#),
+        ("p0 .506 against 5e-324 (a NaN mass made every rule \"always reject\")", r#"{"family": "proportion_exact", "alternative": "two_sided", "alpha_max": 0.3609455852585618, "beta_max": 0.2812052694567422, "theta0": 0.5060466205355688, "theta1": 5e-324, "curves": true}"#),
+        ("p0 .269 against .265, alpha_max .001 (search budget spent)", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.269190193390082, "theta1": 0.26478497504399656, "alpha_max": 0.001, "beta_max": 0.1560254725198921, "data": {"successes": 9, "trials": 12}}"#),
         ("n = 5,000,000, p0 .02 against .385", r#"{"family": "proportion_exact", "alternative": "two_sided", "theta0": 0.02, "theta1": 0.3851879111385597, "alpha_max": 5e-324, "beta_max": 0.00808077874969846, "weight": 0.999999, "n": 5000000}"#),
     ];
     for (name, text) in slow {

@@ -12,7 +12,9 @@
 use super::design::{Design, N_MAX};
 use super::dist::{Continuous, Discrete, Normal};
 use super::evaluate::{EvaluateError, Evaluation, evaluate, sig3, solve, within};
-use super::conventional::{continuous_level, discrete_level};
+use super::conventional::{continuous_level, discrete_level_near};
+use super::threshold::DiscreteCut;
+use std::cell::Cell;
 use super::model::Sampling;
 use super::threshold::{ContinuousCut, Errors};
 use serde::Serialize;
@@ -92,10 +94,23 @@ pub fn errors_at(design: &Design, n1: u64, solves: &mut usize) -> Result<Errors,
 
 /// The conventional power at n1.
 pub fn conventional_power(design: &Design, n1: u64) -> Result<f64, EvaluateError> {
+    conventional_power_near(design, n1, &Cell::new(None))
+}
+
+/// [`conventional_power`] for a scan over n: `near` holds the two-sided
+/// count test's half-width at the previous n, where the search starts,
+/// and is updated.
+fn conventional_power_near(design: &Design, n1: u64, near: &Cell<Option<f64>>) -> Result<f64, EvaluateError> {
     let m = design.model(n1)?;
     let e = match &m.sampling {
         Sampling::Continuous { h0, h1 } => continuous_level(h0, h1, design.alternative, m.setup.centre, design.alpha_max)?.1,
-        Sampling::Discrete { h0, h1 } => discrete_level(h0, h1, design.alternative, m.setup.centre, design.alpha_max)?.1,
+        Sampling::Discrete { h0, h1 } => {
+            let (cut, e) = discrete_level_near(h0, h1, design.alternative, m.setup.centre, design.alpha_max, near.get())?;
+            if let DiscreteCut::Outside { half_width, .. } = cut {
+                near.set(Some(half_width));
+            }
+            e
+        }
     };
     Ok(1.0 - e.beta)
 }
@@ -385,7 +400,8 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         checked_to = Some(checked);
     }
     let target = 1.0 - design.beta_max;
-    let conv_ok = |n: u64| -> Result<bool, EvaluateError> { Ok(conventional_power(design, n)? >= target) };
+    let near = Cell::new(None);
+    let conv_ok = |n: u64| -> Result<bool, EvaluateError> { Ok(conventional_power_near(design, n, &near)? >= target) };
     let mut conventional_stopped_at = None;
     let conventional = if discrete {
         let last = scan_from.saturating_add(CONVENTIONAL_SCAN_BUDGET - 1).min(max);

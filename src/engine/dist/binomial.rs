@@ -20,6 +20,7 @@
 //! otherwise.
 
 use super::special::{bd0, smallest_true, stirlerr, sum_decreasing};
+use statrs::function::gamma::ln_gamma;
 use super::{Continuous, Discrete, DistError, Normal, check};
 
 /// ln(2π).
@@ -85,6 +86,12 @@ impl Binomial {
         let nq_lo = n.mul_add(q, -nq) + n * self.q_lo;
         let d1 = bd0(x, np) + (1.0 - x / np) * np_lo;
         let d2 = bd0(y, nq) + (1.0 - y / nq) * nq_lo;
+        if !(d1.is_finite() && d2.is_finite()) {
+            // np or nq so small (p or q near the smallest double) that x/np
+            // overflows: the direct form ln C(n, k) + k·ln p + (n − k)·ln q,
+            // whose terms are then far from cancelling.
+            return ln_gamma(n + 1.0) - ln_gamma(x + 1.0) - ln_gamma(y + 1.0) + x * p.ln() + y * if p < 0.5 { (-p).ln_1p() } else { q.ln() };
+        }
         let lc = stirlerr(n) - stirlerr(x) - stirlerr(y) - d1 - d2;
         // ln(2π·x·y/n) = ln(2π) + ln s + ln(1 − s/n) with s the smaller of
         // x and y: 1 − x/n formed from a rounded x/n near 1 would lose digits.
@@ -312,6 +319,27 @@ mod tests {
         let b = Binomial::new(2, p).unwrap();
         let want = p * (2.0 - p);
         assert!(((b.sf(0) - want) / want).abs() < 1e-15, "{}", b.sf(0));
+    }
+
+    /// Regression (found by the long fuzz run): with p the smallest
+    /// subnormal, x/np overflowed and P(X = 1) came out NaN, which made the
+    /// two-sided walk pick "always reject". Closed forms, by hand:
+    /// P(X = 1) = n·p·(1 − p)^(n−1), ln P(X = k) = ln C(n, k) + k·ln p +
+    /// (n − k)·ln(1 − p) (the last term is 0 in doubles for these p).
+    #[test]
+    fn subnormal_rates_have_finite_masses() {
+        let p = 5e-324;
+        let b = Binomial::new(2, p).unwrap();
+        assert_eq!(b.pmf(1), 2.0 * p);
+        let want = 2f64.ln() + p.ln();
+        assert!((b.ln_pmf(1) - want).abs() <= 1e-13 * want.abs(), "{}", b.ln_pmf(1));
+        let b = Binomial::new(1000, 1e-310).unwrap();
+        // ln C(1000, 3) = ln(166,167,000).
+        let want = 166_167_000f64.ln() + 3.0 * 1e-310f64.ln();
+        assert!((b.ln_pmf(3) - want).abs() <= 1e-13 * want.abs(), "{} against {want}", b.ln_pmf(3));
+        // The mirror image: q = 2^−53, the smallest q a double p < 1 leaves.
+        let b = Binomial::new(2, 1.0 - f64::EPSILON / 2.0).unwrap();
+        assert!(b.pmf(1).is_finite());
     }
 
     #[test]

@@ -51,6 +51,47 @@ fn window_last<D: Discrete>(d: &D, mode: u64, cutoff: f64) -> u64 {
     }
 }
 
+/// [`first_true`] started from a guess near the answer: steps of 1, 2,
+/// 4, … away from `guess` until the answer is bracketed, then bisection.
+/// About 2·log2(distance) + 2 calls instead of log2(hi − lo), for a guess
+/// a few counts off; the same answer for any guess.
+pub(crate) fn first_true_from<P: Fn(u64) -> bool>(lo: u64, hi: u64, guess: u64, p: P) -> Option<u64> {
+    if lo > hi {
+        return None;
+    }
+    let g = guess.clamp(lo, hi);
+    let mut step = 1u64;
+    if p(g) {
+        // The answer is at or below g: find a false point below.
+        let mut high = g;
+        loop {
+            if high == lo {
+                return Some(lo);
+            }
+            let probe = high.saturating_sub(step).max(lo);
+            if !p(probe) {
+                return first_true(probe + 1, high, p);
+            }
+            high = probe;
+            step = step.saturating_mul(2);
+        }
+    } else {
+        // The answer is above g, if anywhere: find a true point above.
+        let mut low = g;
+        loop {
+            if low == hi {
+                return None;
+            }
+            let probe = low.saturating_add(step).min(hi);
+            if p(probe) {
+                return first_true(low + 1, probe, p);
+            }
+            low = probe;
+            step = step.saturating_mul(2);
+        }
+    }
+}
+
 /// Smallest k in [lo, hi] with `p(k)` true, for a predicate that is false
 /// then true (monotone); `None` when false everywhere.
 pub(crate) fn first_true<P: Fn(u64) -> bool>(lo: u64, hi: u64, p: P) -> Option<u64> {
@@ -150,7 +191,21 @@ impl MassCounts {
 
 #[cfg(test)]
 mod tests {
-    use super::MassCounts;
+    use super::{MassCounts, first_true, first_true_from};
+
+    /// The guided search gives the plain bisection's answer for every
+    /// guess, answer and range (predicates written out: k ≥ t).
+    #[test]
+    fn first_true_from_any_guess_agrees() {
+        for (lo, hi) in [(0u64, 0u64), (0, 1), (3, 40), (10, 1000)] {
+            for t in lo.saturating_sub(1)..=hi + 2 {
+                for guess in [0, lo, (lo + hi) / 2, hi, t, t.saturating_sub(3), t + 5, u64::MAX] {
+                    let p = |k: u64| k >= t;
+                    assert_eq!(first_true_from(lo, hi, guess, p), first_true(lo, hi, p), "[{lo}, {hi}], t {t}, guess {guess}");
+                }
+            }
+        }
+    }
 
     /// Stepping over the gap between two windows, against the sets written
     /// out: [2, 4] and [8, 9] leave 5–7 massless; overlapping or touching

@@ -23,8 +23,8 @@ mod region;
 mod two_sided_counts;
 
 pub use continuous::solve_continuous;
-pub(crate) use mass_window::{first_true, mass_window};
-pub use region::{ContinuousCut, DiscreteCut, Errors, continuous_errors, discrete_errors, distance_tolerance, same_distance};
+pub(crate) use mass_window::{first_true, first_true_from, mass_window};
+pub use region::{ContinuousCut, DiscreteCut, Errors, continuous_errors, discrete_alpha, discrete_errors, distance_tolerance, same_distance};
 
 use super::dist::{DistError, Discrete};
 use super::root::RootError;

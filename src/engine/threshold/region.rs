@@ -133,16 +133,33 @@ pub fn continuous_errors<C0: Continuous, C1: Continuous>(h0: &C0, h1: &C1, cut: 
     }
 }
 
+/// P(X ≥ k) for any integer k, support ends included.
+fn at_least(d: &dyn DiscreteTail, k: i64) -> f64 {
+    if k <= 0 { 1.0 } else { d.sf_k(k as u64 - 1) }
+}
+
+/// P(X ≤ k) for any integer k, support ends included.
+fn at_most(d: &dyn DiscreteTail, k: i64) -> f64 {
+    if k < 0 { 0.0 } else { d.cdf_k(k as u64) }
+}
+
+/// α alone of a discrete rejection region (H0's tails only): what a
+/// search for a level needs, at half the cost of [`discrete_errors`].
+pub fn discrete_alpha<D0: Discrete>(h0: &D0, cut: DiscreteCut) -> f64 {
+    match cut {
+        DiscreteCut::AtLeast(k) => at_least(h0, k),
+        DiscreteCut::AtMost(k) => at_most(h0, k),
+        DiscreteCut::Outside { low, high, .. } => (low.map_or(0.0, |k| at_most(h0, k)) + high.map_or(0.0, |k| at_least(h0, k))).min(1.0),
+    }
+}
+
 /// α and β of a discrete rejection region.
 pub fn discrete_errors<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, cut: DiscreteCut) -> Errors {
-    // P(X ≥ k) and P(X ≤ k) for any integer k, support ends included.
-    let at_least = |d: &dyn DiscreteTail, k: i64| if k <= 0 { 1.0 } else { d.sf_k(k as u64 - 1) };
-    let at_most = |d: &dyn DiscreteTail, k: i64| if k < 0 { 0.0 } else { d.cdf_k(k as u64) };
     match cut {
         DiscreteCut::AtLeast(k) => Errors { alpha: at_least(h0, k), beta: 1.0_f64.min(at_most(h1, k - 1)) },
         DiscreteCut::AtMost(k) => Errors { alpha: at_most(h0, k), beta: at_least(h1, k + 1) },
         DiscreteCut::Outside { low, high, .. } => {
-            let alpha = low.map_or(0.0, |k| at_most(h0, k)) + high.map_or(0.0, |k| at_least(h0, k));
+            let alpha = discrete_alpha(h0, cut);
             // Accepted: low+1 ..= high−1.
             let a = low.map_or(0, |k| k + 1);
             let b = high.map_or(i64::MAX, |k| k - 1);
@@ -161,7 +178,7 @@ pub fn discrete_errors<D0: Discrete, D1: Discrete>(h0: &D0, h1: &D1, cut: Discre
                     (from_a - above_b).max(0.0)
                 }
             };
-            Errors { alpha: alpha.min(1.0), beta }
+            Errors { alpha, beta }
         }
     }
 }
