@@ -13,6 +13,10 @@ pub mod engine;
 /// compiled and tested, no web types.
 pub mod page;
 
+/// The report a reviewer reads (HTML, Markdown, JSON), built from a request
+/// and its answer with the page model's charts; natively and in the page.
+pub mod report;
+
 /// The page: DOM, events and canvas charts over the engine. Compiled only
 /// for WebAssembly, so a native build never sees a web type.
 #[cfg(target_arch = "wasm32")]

@@ -116,7 +116,7 @@ fn every_family_decides_from_a_data_file() {
             assert!(fields.iter().any(|(k, _)| *k == f.key), "{}: the file gives no {}", e.id, f.key);
         }
         let spec = request::parse_value(&serde_json::Value::Object(design_json(e))).unwrap().design;
-        let ask = Ask { spec: to_spec(e), n: None, data: Some(fields.clone()) };
+        let ask = Ask { spec: to_spec(e), n: None, data: Some(fields.clone()), ..Ask::default() };
         let reply = request::reply(&ask);
         assert!(reply.errors.is_empty(), "{}: {:?}", e.id, reply.errors);
         assert_eq!(reply.answer.map(|a| a.design), Some(spec));

@@ -19,6 +19,11 @@ usage:
                       (value, first, second, group, level1, level2, outcome,
                       success) and may set exclude_rows, delimiter, decimal,
                       header, missing and sheet
+  tern report FILE [--format html|md|json] [--out PATH]
+                      write the report of the design in FILE (or standard
+                      input for -): a self-contained HTML file (the default;
+                      print it to PDF from a browser), CommonMark, or JSON;
+                      to PATH, or to standard output
   tern help           show this text
 
 The input fields and two worked examples are in the README.";
@@ -28,6 +33,13 @@ fn main() -> ExitCode {
     match args.first().map(String::as_str) {
         Some("run") => match run_args(&args[1..]) {
             Ok((design, data)) => run(design, data),
+            Err(message) => {
+                eprintln!("tern: {message}\n\n{USAGE}");
+                ExitCode::from(2)
+            }
+        },
+        Some("report") => match report_args(&args[1..]) {
+            Ok(a) => report(a),
             Err(message) => {
                 eprintln!("tern: {message}\n\n{USAGE}");
                 ExitCode::from(2)
@@ -67,25 +79,24 @@ fn run_args(args: &[String]) -> Result<(Option<&str>, Option<&str>), String> {
     Ok((design, data))
 }
 
-fn run(path: Option<&str>, data: Option<&str>) -> ExitCode {
-    let text = match path {
+/// The text of FILE, or of standard input for none or `-`.
+fn read_input(path: Option<&str>) -> Result<String, String> {
+    match path {
         None | Some("-") => {
             let mut s = String::new();
-            match std::io::stdin().read_to_string(&mut s) {
-                Ok(_) => s,
-                Err(e) => {
-                    eprintln!("tern: cannot read standard input: {e}");
-                    return ExitCode::from(1);
-                }
-            }
+            std::io::stdin().read_to_string(&mut s).map(|_| s).map_err(|e| format!("cannot read standard input: {e}"))
         }
-        Some(p) => match std::fs::read_to_string(p) {
-            Ok(s) => s,
-            Err(e) => {
-                eprintln!("tern: cannot read {p}: {e}");
-                return ExitCode::from(1);
-            }
-        },
+        Some(p) => std::fs::read_to_string(p).map_err(|e| format!("cannot read {p}: {e}")),
+    }
+}
+
+fn run(path: Option<&str>, data: Option<&str>) -> ExitCode {
+    let text = match read_input(path) {
+        Ok(s) => s,
+        Err(e) => {
+            eprintln!("tern: {e}");
+            return ExitCode::from(1);
+        }
     };
     let answer = match data {
         None => tern::engine::request::run(&text),
@@ -116,6 +127,108 @@ fn run(path: Option<&str>, data: Option<&str>) -> ExitCode {
         Err(e) => {
             eprintln!("tern: {e}");
             ExitCode::from(2)
+        }
+    }
+}
+
+/// The formats `tern report` writes.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum Format {
+    Html,
+    Markdown,
+    Json,
+}
+
+/// `report`'s arguments.
+struct ReportArgs<'a> {
+    design: Option<&'a str>,
+    format: Format,
+    out: Option<&'a str>,
+}
+
+fn report_args(args: &[String]) -> Result<ReportArgs<'_>, String> {
+    let mut a = ReportArgs { design: None, format: Format::Html, out: None };
+    let (mut format_seen, mut it) = (false, args.iter());
+    while let Some(arg) = it.next() {
+        match arg.as_str() {
+            "--format" => {
+                let f = it.next().ok_or("--format needs html, md or json")?;
+                if format_seen {
+                    return Err("--format is given twice".into());
+                }
+                format_seen = true;
+                a.format = match f.as_str() {
+                    "html" => Format::Html,
+                    "md" | "markdown" => Format::Markdown,
+                    "json" => Format::Json,
+                    other => return Err(format!("--format is \"{other}\", but must be html, md or json")),
+                };
+            }
+            "--out" => match it.next() {
+                Some(p) if a.out.is_none() => a.out = Some(p.as_str()),
+                Some(_) => return Err("--out is given twice".into()),
+                None => return Err("--out needs a file name".into()),
+            },
+            f if a.design.is_none() && (f == "-" || !f.starts_with("--")) => a.design = Some(f),
+            other => return Err(format!("unexpected argument \"{other}\"")),
+        }
+    }
+    Ok(a)
+}
+
+/// Today's date (UTC) as YYYY-MM-DD, from the system clock: the civil
+/// date of a day count since 1970-01-01 (the proleptic Gregorian
+/// calendar; H. Hinnant, "chrono-Compatible Low-Level Date Algorithms",
+/// days_from_civil's inverse).
+fn today() -> String {
+    let secs = std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map_or(0, |d| d.as_secs());
+    let z = (secs / 86_400) as i64 + 719_468;
+    let era = z.div_euclid(146_097);
+    let doe = z - era * 146_097;
+    let yoe = (doe - doe / 1_460 + doe / 36_524 - doe / 146_096) / 365;
+    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    let mp = (5 * doy + 2) / 153;
+    let d = doy - (153 * mp + 2) / 5 + 1;
+    let m = if mp < 10 { mp + 3 } else { mp - 9 };
+    let y = yoe + era * 400 + i64::from(m <= 2);
+    format!("{y:04}-{m:02}-{d:02}")
+}
+
+fn report(a: ReportArgs<'_>) -> ExitCode {
+    let text = match read_input(a.design) {
+        Ok(s) => s,
+        Err(e) => {
+            eprintln!("tern: {e}");
+            return ExitCode::from(1);
+        }
+    };
+    let prepared = match tern::report::prepare(&text, tern::report::Stamp::today(today())) {
+        Ok(p) => p,
+        Err(e) => {
+            eprintln!("tern: {e}");
+            return ExitCode::from(2);
+        }
+    };
+    let doc = match a.format {
+        Format::Html => prepared.html(),
+        Format::Markdown => prepared.markdown(),
+        Format::Json => prepared.json(),
+    };
+    let written = match a.out {
+        Some(path) => std::fs::write(path, doc.as_bytes()).map_err(|e| format!("cannot write {path}: {e}")),
+        None => {
+            let mut out = std::io::stdout().lock();
+            match out.write_all(doc.as_bytes()) {
+                Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(format!("cannot write the report: {e}")),
+                _ => Ok(()),
+            }
+        }
+    };
+    match written {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(e) => {
+            eprintln!("tern: {e}");
+            ExitCode::from(1)
         }
     }
 }

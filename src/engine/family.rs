@@ -256,6 +256,9 @@ pub struct Entry {
     pub axis: &'static str,
     /// H0 in words where it is not "θ0 = value" (two proportions: equal rates).
     pub null_words: Option<&'static str>,
+    /// The parameter θ the hypotheses are about, as a report writes it:
+    /// "μ1 − μ2" in "H0: μ1 − μ2 = 0".
+    pub parameter: &'static str,
     /// The estimate is in the user's unit (false: a proportion).
     pub in_unit: bool,
 }
@@ -452,6 +455,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the sample mean",
         axis: "sample mean",
         null_words: None,
+        parameter: "μ",
         in_unit: true,
     },
     Entry {
@@ -473,6 +477,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the sample mean",
         axis: "sample mean",
         null_words: None,
+        parameter: "μ",
         in_unit: true,
     },
     Entry {
@@ -494,6 +499,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the mean difference",
         axis: "mean of the paired differences",
         null_words: None,
+        parameter: "μd",
         in_unit: true,
     },
     Entry {
@@ -515,6 +521,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the difference of means",
         axis: "difference of means, group 1 − group 2",
         null_words: None,
+        parameter: "μ1 − μ2",
         in_unit: true,
     },
     Entry {
@@ -536,6 +543,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the difference of means",
         axis: "difference of means, group 1 − group 2",
         null_words: None,
+        parameter: "μ1 − μ2",
         in_unit: true,
     },
     Entry {
@@ -557,6 +565,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the proportion",
         axis: "number of successes",
         null_words: None,
+        parameter: "p",
         in_unit: false,
     },
     Entry {
@@ -578,6 +587,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the proportion",
         axis: "sample proportion",
         null_words: None,
+        parameter: "p",
         in_unit: false,
     },
     Entry {
@@ -599,6 +609,7 @@ pub const REGISTRY: [Entry; 8] = [
         estimate: "the difference of proportions",
         axis: "difference of proportions, group 1 − group 2",
         null_words: Some("equal rates"),
+        parameter: "p1 − p2",
         in_unit: false,
     },
 ];

@@ -17,6 +17,7 @@ pub mod sample_size;
 pub mod decision;
 pub mod curves;
 pub mod inverse;
+pub mod context;
 pub mod request;
 pub mod data_file;
 pub mod table;

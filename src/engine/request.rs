@@ -12,7 +12,8 @@ use super::design::{Design, DesignError, DesignSpec, Family};
 use super::family;
 use super::evaluate::{EvaluateError, Evaluation, evaluate};
 use super::inverse::{SmallestEffect, smallest_effect};
-use super::sample_size::{SampleSize, sample_size};
+use super::sample_size::{GroupSizes, SampleSize, sample_size};
+use super::context::{self, Context};
 use super::threshold::Alternative;
 use serde::Serialize;
 use serde_json::{Map, Value};
@@ -61,6 +62,8 @@ pub struct Request {
     pub n: Option<u64>,
     pub data: Option<Summary>,
     pub curves: bool,
+    /// The design's words and dropout ([`context`]).
+    pub context: Context,
 }
 
 /// The full answer.
@@ -78,6 +81,16 @@ pub struct Answer {
     pub smallest_effect: Option<SmallestEffect>,
     pub decision: Option<Decision>,
     pub curves: Option<Curves>,
+    /// With a dropout share: the number to enrol for the smallest
+    /// conclusive n, ⌈n / (1 − dropout)⌉ per group.
+    pub enrolment: Option<Enrolment>,
+}
+
+/// The number to enrol so that the smallest conclusive n remains.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Enrolment {
+    pub dropout: f64,
+    pub enrol: GroupSizes,
 }
 
 fn shown(v: &Value) -> String {
@@ -136,7 +149,9 @@ pub fn parse_value(value: &Value) -> Result<Request, RequestError> {
     let obj = value.as_object().ok_or(RequestError::NotObject)?;
     let mut known = design_fields();
     known.extend(OTHER_FIELDS);
+    known.extend(context::FIELDS);
     check_fields(obj, &known, "")?;
+    let context = context::parse(obj)?;
     let family = match obj.get("family") {
         None | Some(Value::Null) => None,
         Some(Value::String(s)) => Some(Family::from_id(s).ok_or_else(|| RequestError::BadValue {
@@ -176,7 +191,7 @@ pub fn parse_value(value: &Value) -> Result<Request, RequestError> {
         Some(Value::Bool(b)) => *b,
         Some(v) => return Err(RequestError::BadValue { field: "curves".into(), shown: shown(v), rule: "true or false".into() }),
     };
-    Ok(Request { design, n, data, curves })
+    Ok(Request { design, n, data, curves, context })
 }
 
 /// A typed n checked against the design's range.
@@ -230,6 +245,10 @@ fn answer_with(req: &Request, decision: Option<Decision>) -> Result<Answer, Requ
         }
         _ => None,
     };
+    let enrolment = match (req.context.dropout, sample_size.youden) {
+        (Some(dropout), Some(n)) => Some(Enrolment { dropout, enrol: context::enrolment(n, dropout) }),
+        _ => None,
+    };
     Ok(Answer {
         tern_version: env!("CARGO_PKG_VERSION"),
         family: design.family.id(),
@@ -241,6 +260,7 @@ fn answer_with(req: &Request, decision: Option<Decision>) -> Result<Answer, Requ
         smallest_effect: smallest,
         decision,
         curves,
+        enrolment,
     })
 }
 
@@ -252,6 +272,8 @@ pub struct Ask {
     pub spec: DesignSpec,
     pub n: Option<f64>,
     pub data: Option<Vec<(&'static str, f64)>>,
+    /// The design's words and dropout.
+    pub context: Context,
 }
 
 /// A sample size checked on its own: the design there and the smallest
@@ -294,7 +316,7 @@ pub fn reply(ask: &Ask) -> Reply {
             Err(e) => errors.push(e.into()),
         }
     }
-    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true };
+    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone() };
     let answer = match answer_with(&req, decision) {
         Ok(a) => a,
         Err(e) => {

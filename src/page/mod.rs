@@ -13,4 +13,5 @@
 
 pub mod charts;
 pub mod form;
+pub mod html;
 pub mod results;

@@ -244,7 +244,7 @@ mod tests {
     #[test]
     fn the_size_card_says_the_youden_and_the_conventional_n() {
         let spec = DesignSpec::new(Family::MeanZ, Alternative::Greater).with("d", 0.3).with("alpha_max", 0.05).with("beta_max", 0.2);
-        let r = reply(&Ask { spec, n: Some(50.0), data: Some(vec![("n", 121.0), ("mean", 0.31)]) });
+        let r = reply(&Ask { spec, n: Some(50.0), data: Some(vec![("n", 121.0), ("mean", 0.31)]), ..Ask::default() });
         assert!(r.errors.is_empty(), "{:?}", r.errors);
         let ans = r.answer.unwrap();
         let card = size_card(&ans, "");

@@ -103,20 +103,7 @@ pub fn now_ms() -> f64 {
 }
 
 /// Escape text for inclusion in markup.
-pub fn escape(text: &str) -> String {
-    let mut out = String::with_capacity(text.len());
-    for c in text.chars() {
-        match c {
-            '&' => out.push_str("&amp;"),
-            '<' => out.push_str("&lt;"),
-            '>' => out.push_str("&gt;"),
-            '"' => out.push_str("&quot;"),
-            '\'' => out.push_str("&#39;"),
-            c => out.push(c),
-        }
-    }
-    out
-}
+pub use crate::page::html::escape;
 
 // Building elements from text that is not ours (cell text, column names,
 // file names). Everything below sets `textContent` or attributes, never

@@ -17,7 +17,6 @@ pub mod histogram;
 pub mod prep;
 pub mod quantile;
 pub mod sampling;
-#[cfg(not(target_arch = "wasm32"))]
 pub mod svg;
 pub mod table;
 pub mod total_error;

@@ -1,12 +1,42 @@
 //! The numbers behind each chart as a small HTML table, for screen readers
 //! and for anyone who wants the figures rather than the picture.
 
-use super::prep::{ByNView, SamplingView, TotalErrorView, TradeoffView};
+use super::prep::{ByNView, SamplingView, TotalErrorView, TradeoffView, Views};
 use super::{prob, short};
 
-fn esc(s: &str) -> String {
-    s.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;")
+/// A chart's numbers: a caption, the column heads and the rows (the first
+/// cell of each row heads it). The page shows it as HTML; a report writes
+/// it in its own format.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Numbers {
+    pub caption: String,
+    pub head: Vec<String>,
+    pub rows: Vec<Vec<String>>,
 }
+
+impl Numbers {
+    fn new(caption: &str, head: &[&str], rows: Vec<Vec<String>>) -> Numbers {
+        Numbers { caption: caption.to_string(), head: head.iter().map(|h| h.to_string()).collect(), rows }
+    }
+
+    /// The table as HTML, cells escaped.
+    pub fn html(&self) -> String {
+        let head: Vec<&str> = self.head.iter().map(String::as_str).collect();
+        table(&self.caption, &head, &self.rows)
+    }
+}
+
+/// The numbers of the four design charts, named as [`super::svg::design_charts`] names them.
+pub fn design_numbers(v: &Views) -> Vec<(&'static str, Numbers)> {
+    vec![
+        ("sampling", sampling_numbers(&v.sampling)),
+        ("by-n", by_n_numbers(&v.by_n)),
+        ("tradeoff", tradeoff_numbers(&v.tradeoff)),
+        ("total", total_error_numbers(&v.total)),
+    ]
+}
+
+use crate::page::html::escape as esc;
 
 fn table(caption: &str, head: &[&str], rows: &[Vec<String>]) -> String {
     let mut h = format!("<table><caption>{}</caption><thead><tr>", esc(caption));
@@ -47,6 +77,10 @@ fn u(x: f64, unit: &str) -> String {
 }
 
 pub fn sampling(v: &SamplingView) -> String {
+    sampling_numbers(v).html()
+}
+
+pub fn sampling_numbers(v: &SamplingView) -> Numbers {
     let mut rows = vec![
         vec!["peak of the curve if H0 is true".into(), u(v.h0_centre, &v.unit)],
         vec!["peak of the curve if the effect is θ1".into(), u(v.h1_centre, &v.unit)],
@@ -60,10 +94,14 @@ pub fn sampling(v: &SamplingView) -> String {
     if let Some(o) = v.observed {
         rows.push(vec!["observed".into(), u(o, &v.unit)]);
     }
-    table("The two sampling curves", &["quantity", "value"], &rows)
+    Numbers::new("The two sampling curves", &["quantity", "value"], rows)
 }
 
 pub fn by_n(v: &ByNView) -> String {
+    by_n_numbers(v).html()
+}
+
+pub fn by_n_numbers(v: &ByNView) -> Numbers {
     let mut idx = spread(v.points.len(), 10);
     for target in [v.youden_n, Some(v.shown_n)].into_iter().flatten() {
         if let Some(i) = v.points.iter().position(|p| (p.n - target).abs() < 0.5) {
@@ -80,20 +118,28 @@ pub fn by_n(v: &ByNView) -> String {
         })
         .collect();
     let cap = format!("α* and β* against n (limits: α {}, β {})", prob(v.alpha_max), prob(v.beta_max));
-    table(&cap, &["n", "α*", "β*", "conclusive"], &rows)
+    Numbers::new(&cap, &["n", "α*", "β*", "conclusive"], rows)
 }
 
 pub fn tradeoff(v: &TradeoffView) -> String {
+    tradeoff_numbers(v).html()
+}
+
+pub fn tradeoff_numbers(v: &TradeoffView) -> Numbers {
     let inner: Vec<(f64, f64)> = v.points.iter().copied().filter(|p| p.0 > 0.0 && p.0 < 1.0).collect();
     let mut rows: Vec<Vec<String>> =
         spread(inner.len(), 9).into_iter().map(|i| vec![prob(inner[i].0), prob(inner[i].1), String::new()]).collect();
     rows.push(vec![prob(v.youden.0), prob(v.youden.1), "the chosen threshold (largest J)".into()]);
     rows.sort_by(|a, b| a[0].parse::<f64>().unwrap_or(0.0).total_cmp(&b[0].parse::<f64>().unwrap_or(0.0)));
     let cap = format!("Power against α at {}; limits allow α ≤ {} and power ≥ {}", v.n_text, prob(v.alpha_max), prob(1.0 - v.beta_max));
-    table(&cap, &["α", "power", "note"], &rows)
+    Numbers::new(&cap, &["α", "power", "note"], rows)
 }
 
 pub fn total_error(v: &TotalErrorView) -> String {
+    total_error_numbers(v).html()
+}
+
+pub fn total_error_numbers(v: &TotalErrorView) -> Numbers {
     let mut rows: Vec<Vec<String>> = spread(v.points.len(), 9)
         .into_iter()
         .map(|i| {
@@ -102,5 +148,5 @@ pub fn total_error(v: &TotalErrorView) -> String {
         })
         .collect();
     rows.push(vec![format!("{} (minimum)", u(v.minimum.0, &v.unit)), String::new(), String::new(), prob(v.minimum.1)]);
-    table("Total error against the threshold", &["threshold", "α", "β", "α + β"], &rows)
+    Numbers::new("Total error against the threshold", &["threshold", "α", "β", "α + β"], rows)
 }

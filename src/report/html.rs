@@ -1,0 +1,140 @@
+//! The report as one self-contained HTML file: no script, no file or font
+//! from anywhere else (its own content policy forbids them), the charts as
+//! inline SVG, and a print style sheet so that the browser's "print" makes
+//! the PDF: A4 or US Letter margins, no chart or table split across pages,
+//! black text on white.
+
+use super::apa::Inline;
+use super::{Block, Report, Table};
+use crate::page::html::escape;
+
+/// The style: screen and print. Charts scale to the text width; in print
+/// each section starts its headings with the text that follows and no
+/// figure or table is cut by a page break.
+const STYLE: &str = "\
+:root { color-scheme: light; }
+body { font: 11pt/1.45 system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif; color: #111; background: #fff; max-width: 48rem; margin: 2rem auto; padding: 0 1rem; }
+h1 { font-size: 1.6rem; margin-bottom: .2rem; }
+h2 { font-size: 1.2rem; margin-top: 2rem; border-bottom: 1px solid #999; padding-bottom: .2rem; }
+.stamp { color: #333; margin-top: 0; }
+.caution { border: 2px solid #111; padding: .6rem .8rem; font-weight: 600; }
+table { border-collapse: collapse; margin: .6rem 0; font-size: .92em; }
+caption { text-align: left; font-weight: 600; padding-bottom: .2rem; }
+th, td { border: 1px solid #888; padding: .2rem .45rem; text-align: left; vertical-align: top; }
+table.facts th { font-weight: normal; background: #f2f2f2; }
+figure { margin: 1rem 0; break-inside: avoid; page-break-inside: avoid; }
+figure svg { width: 100%; height: auto; border: 1px solid #ccc; }
+figcaption { font-weight: 600; margin-bottom: .3rem; }
+pre { background: #f4f4f4; border: 1px solid #ccc; padding: .5rem; overflow-x: auto; white-space: pre-wrap; word-break: break-word; font-size: .85em; }
+@page { margin: 16mm 15mm; }
+@media print {
+  body { max-width: none; margin: 0; padding: 0; font-size: 10pt; }
+  h2 { break-after: avoid; page-break-after: avoid; }
+  table, pre, .caution { break-inside: avoid; page-break-inside: avoid; }
+  section#charts { break-before: page; page-break-before: always; }
+  figure table { font-size: 8pt; }
+  a { color: inherit; text-decoration: none; }
+}
+";
+
+
+fn inlines(runs: &[Inline]) -> String {
+    runs.iter()
+        .map(|r| match r {
+            Inline::Text(s) => escape(s),
+            Inline::Symbol(s) => format!("<i>{}</i>", escape(s)),
+        })
+        .collect()
+}
+
+fn table(t: &Table, class: &str) -> String {
+    let mut h = format!("<table{class}>");
+    if !t.caption.is_empty() {
+        h.push_str(&format!("<caption>{}</caption>", escape(&t.caption)));
+    }
+    h.push_str("<thead><tr>");
+    for c in &t.head {
+        h.push_str(&format!("<th scope=\"col\">{}</th>", escape(c)));
+    }
+    h.push_str("</tr></thead><tbody>");
+    for row in &t.rows {
+        h.push_str("<tr>");
+        for (i, c) in row.iter().enumerate() {
+            let tag = if i == 0 { "th scope=\"row\"" } else { "td" };
+            let end = if i == 0 { "th" } else { "td" };
+            h.push_str(&format!("<{tag}>{}</{end}>", escape(c)));
+        }
+        h.push_str("</tr>");
+    }
+    h.push_str("</tbody></table>");
+    h
+}
+
+/// An SVG document made fit to sit inside HTML: without its XML
+/// declaration, scaled by a viewBox, labelled for screen readers.
+fn inline_svg(svg: &str, title: &str) -> String {
+    let body = match svg.find("<svg") {
+        Some(i) => &svg[i..],
+        None => svg,
+    };
+    let attr = |name: &str| -> Option<String> {
+        let head = &body[..body.find('>').unwrap_or(0)];
+        let k = head.find(&format!(" {name}=\""))? + name.len() + 3;
+        Some(head[k..].split('"').next()?.to_string())
+    };
+    let mut extra = format!(" role=\"img\" aria-label=\"{}\"", escape(title));
+    if !body[..body.find('>').unwrap_or(0)].contains("viewBox")
+        && let (Some(w), Some(h)) = (attr("width"), attr("height"))
+    {
+        extra.push_str(&format!(" viewBox=\"0 0 {w} {h}\""));
+    }
+    body.replacen("<svg", &format!("<svg{extra}"), 1)
+}
+
+/// The whole HTML document.
+pub fn html(r: &Report) -> String {
+    let mut h = String::from("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
+    h.push_str("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">\n");
+    h.push_str("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n");
+    h.push_str(&format!("<title>{}</title>\n<style>\n{STYLE}</style>\n</head>\n<body>\n<main>\n", escape(&r.title)));
+    h.push_str(&format!("<h1>{}</h1>\n<p class=\"stamp\">{}</p>\n", escape(&r.title), escape(&r.stamp.line())));
+    h.push_str(&format!("<p class=\"caution\" role=\"note\">{}</p>\n", escape(&r.caution)));
+    for s in &r.sections {
+        h.push_str(&format!("<section id=\"{}\">\n<h2>{}</h2>\n", s.id, escape(&s.title)));
+        for b in &s.blocks {
+            match b {
+                Block::Paragraph(runs) => h.push_str(&format!("<p>{}</p>\n", inlines(runs))),
+                Block::Facts(facts) => {
+                    h.push_str("<table class=\"facts\"><tbody>");
+                    for (k, v) in facts {
+                        h.push_str(&format!("<tr><th scope=\"row\">{}</th><td>{}</td></tr>", escape(k), inlines(v)));
+                    }
+                    h.push_str("</tbody></table>\n");
+                }
+                Block::Table(t) => {
+                    h.push_str(&table(t, ""));
+                    h.push('\n');
+                }
+                Block::List(items) => {
+                    h.push_str("<ul>");
+                    for i in items {
+                        h.push_str(&format!("<li>{}</li>", escape(i)));
+                    }
+                    h.push_str("</ul>\n");
+                }
+                Block::Figure { id, title, svg, numbers } => {
+                    h.push_str(&format!(
+                        "<figure id=\"chart-{id}\">\n<figcaption>{}</figcaption>\n{}\n{}\n</figure>\n",
+                        escape(title),
+                        inline_svg(svg, title),
+                        table(numbers, "")
+                    ));
+                }
+                Block::Code { language, text } => h.push_str(&format!("<pre><code class=\"language-{language}\">{}</code></pre>\n", escape(text))),
+            }
+        }
+        h.push_str("</section>\n");
+    }
+    h.push_str("</main>\n</body>\n</html>\n");
+    h
+}

@@ -1,0 +1,150 @@
+//! The report, written by `tern report` in each format, checked as a reader
+//! and a reviewer would: the HTML has no script and nothing from elsewhere,
+//! every chart is well-formed SVG, the Markdown is CommonMark a parser
+//! reads into the expected headings, tables and images, the JSON carries
+//! the engine's answer, and the numbers in the text are the ones
+//! `tern run` gives for the same design.
+
+use pulldown_cmark::{Event, Options, Parser, Tag};
+use std::process::Command;
+
+fn tern(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_tern")).args(args).output().expect("tern runs");
+    (out.status.code().unwrap_or(-1), String::from_utf8_lossy(&out.stdout).into_owned(), String::from_utf8_lossy(&out.stderr).into_owned())
+}
+
+/// The clinic example with the report's own fields (a fictional scenario).
+fn design_file() -> std::path::PathBuf {
+    let text = r#"{
+  "family": "two_means_pooled", "alternative": "less", "theta0": 0, "theta1": -3, "sigma": 6,
+  "alpha_max": 0.10, "beta_max": 0.10, "unit": "days", "dropout": 0.15,
+  "planning_source": "pilot study at the Harbour Street clinic, 2025 (24 patients)",
+  "limits_reason": "a missed benefit and a false alarm cost about the same",
+  "notes": "Recovery time after the new physiotherapy plan.\n\nSecond paragraph <b>not markup</b>.",
+  "data": { "n1": 56, "mean1": 39.4, "sd1": 6.3, "n2": 56, "mean2": 42.1, "sd2": 5.8 }
+}"#;
+    let path = std::env::temp_dir().join(format!("tern-report-{}.json", std::process::id()));
+    std::fs::write(&path, text).expect("write the design");
+    path
+}
+
+fn report(format: &str) -> String {
+    let path = design_file();
+    let (code, out, err) = tern(&["report", path.to_str().unwrap(), "--format", format]);
+    assert_eq!(code, 0, "{err}");
+    out
+}
+
+/// The SVG documents inside an HTML report.
+fn svgs(html: &str) -> Vec<&str> {
+    html.match_indices("<svg").map(|(i, _)| &html[i..i + html[i..].find("</svg>").expect("closed svg") + 6]).collect()
+}
+
+#[test]
+fn html_report_is_self_contained_and_its_charts_are_svg() {
+    let html = report("html");
+    assert!(html.starts_with("<!DOCTYPE html>"));
+    let lower = html.to_lowercase();
+    assert!(!lower.contains("<script"), "no script");
+    for far in ["http://", "https://", "src=\"//", "@import", "url("] {
+        // The SVG namespace is the one address allowed: it names, never fetches.
+        let count = lower.matches(far).count() - lower.matches("http://www.w3.org/2000/svg").count().min(lower.matches(far).count());
+        assert_eq!(count, 0, "{far} in the report");
+    }
+    assert!(html.contains("Content-Security-Policy") && html.contains("default-src 'none'"));
+    let charts = svgs(&html);
+    assert_eq!(charts.len(), 4, "four design charts");
+    for svg in charts {
+        roxmltree::Document::parse(svg).expect("each chart is well-formed XML");
+        assert!(svg.contains("viewBox") && svg.contains("role=\"img\""));
+    }
+    // Escaped user text, the caution, both sections on the study.
+    assert!(html.contains("&lt;b&gt;not markup&lt;/b&gt;"));
+    assert!(html.contains("Decision support only"));
+    for id in ["study", "design", "threshold", "sample-size", "decision", "charts", "reproduce"] {
+        assert!(html.contains(&format!("<section id=\"{id}\">")), "section {id}");
+    }
+}
+
+/// The numbers a reviewer checks, against `tern run` on the same design.
+/// Enrolment: ⌈54 / 0.85⌉ = 64 per group (54 / 0.85 = 63.53; by hand).
+/// The statistic and p in journal style: t(110) = −2.36, p = .010 (SciPy
+/// 1.17.1, scipy.stats.ttest_ind_from_stats(39.4, 6.3, 56, 42.1, 5.8, 56,
+/// alternative="less"): t = −2.35948, p = 0.0100319).
+#[test]
+fn report_numbers_are_the_engines() {
+    let path = design_file();
+    let (code, run, err) = tern(&["run", path.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    let answer: serde_json::Value = serde_json::from_str(&run).unwrap();
+    let md = report("md");
+    let youden = answer["sample_size"]["youden"]["n1"].as_u64().unwrap();
+    assert_eq!(youden, 54);
+    assert!(md.contains("n = 54 in each group (108 in all)"), "{md}");
+    assert!(md.contains("enrol 64 in each group (128 in all)"), "{md}");
+    assert!(md.contains("*t*(110) = −2.36, *p* = .010"), "{md}");
+    assert!(md.contains("(source: pilot study at the Harbour Street clinic, 2025 (24 patients))"));
+    assert!(md.contains("Why these limits: a missed benefit and a false alarm cost about the same"));
+    let json: serde_json::Value = serde_json::from_str(&report("json")).unwrap();
+    assert_eq!(json["answer"]["at_n"], answer["at_n"], "the JSON report carries the engine's answer");
+    assert_eq!(json["answer"]["sample_size"], answer["sample_size"]);
+    assert_eq!(json["answer"]["enrolment"]["enrol"]["n1"], 64);
+    assert!(json["design"].get("notes").is_none(), "the notes stay in the document, not the design");
+    assert_eq!(json["report"]["command"], "tern run design.json");
+}
+
+#[test]
+fn markdown_report_is_commonmark_with_tables_and_images() {
+    let md = report("md");
+    let (mut headings, mut tables, mut images, mut code) = (Vec::new(), 0, 0, Vec::new());
+    let mut in_heading = false;
+    let mut in_code = false;
+    for ev in Parser::new_ext(&md, Options::ENABLE_TABLES) {
+        match ev {
+            Event::Start(Tag::Heading { .. }) => {
+                in_heading = true;
+                headings.push(String::new());
+            }
+            Event::End(pulldown_cmark::TagEnd::Heading(_)) => in_heading = false,
+            Event::Start(Tag::Table(_)) => tables += 1,
+            Event::Start(Tag::Image { dest_url, .. }) => {
+                assert!(dest_url.starts_with("data:image/svg+xml;base64,"));
+                images += 1;
+            }
+            Event::Start(Tag::CodeBlock(_)) => {
+                in_code = true;
+                code.push(String::new());
+            }
+            Event::End(pulldown_cmark::TagEnd::CodeBlock) => in_code = false,
+            Event::Text(t) if in_heading => headings.last_mut().unwrap().push_str(&t),
+            Event::Text(t) if in_code => code.last_mut().unwrap().push_str(&t),
+            _ => {}
+        }
+    }
+    assert!(headings[0].starts_with("Tern report: two means"), "{headings:?}");
+    for h in ["The study", "The design", "The sample size", "The decision", "Charts", "Reproduce these numbers"] {
+        assert!(headings.iter().any(|x| x == h), "heading {h}: {headings:?}");
+    }
+    assert_eq!(images, 4);
+    assert!(tables >= 8, "{tables} tables");
+    // The design block reads back as the request, without the notes.
+    let design: serde_json::Value = serde_json::from_str(&code[0]).expect("the design block is JSON");
+    assert_eq!(design["theta1"], -3);
+    assert!(design.get("notes").is_none());
+    assert_eq!(code[1].trim(), "tern run design.json");
+}
+
+#[test]
+fn report_arguments_are_checked() {
+    let path = design_file();
+    let p = path.to_str().unwrap();
+    let (code, _, err) = tern(&["report", p, "--format", "pdf"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("--format is \"pdf\", but must be html, md or json"), "{err}");
+    let (code, _, err) = tern(&["report", "/nonexistent/design.json"]);
+    assert_eq!(code, 1, "{err}");
+    let out = std::env::temp_dir().join(format!("tern-report-out-{}.html", std::process::id()));
+    let (code, stdout, err) = tern(&["report", p, "--out", out.to_str().unwrap()]);
+    assert_eq!((code, stdout.as_str()), (0, ""), "{err}");
+    assert!(std::fs::read_to_string(&out).unwrap().contains("</html>"));
+}
