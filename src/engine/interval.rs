@@ -160,7 +160,7 @@ pub fn confidence_interval(design: &Design, data: &Summary, level: f64) -> Resul
                 let (se, df) = welch(n1, sd1, n2, sd2);
                 let half = StudentT::new(df)?.quantile_upper(q)? * se;
                 let method = format!(
-                    "Welch t interval for mean1 − mean2, {df:.1} degrees of freedom (Welch–Satterthwaite approximation, not a whole number)"
+                    "Welch t interval for mean1 − mean2, {df:.1} degrees of freedom (Welch–Satterthwaite approximation)"
                 );
                 (diff - half, diff + half, method)
             }
