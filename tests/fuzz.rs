@@ -162,7 +162,7 @@ static FAMILY_IDS: std::sync::LazyLock<Vec<&'static str>> = std::sync::LazyLock:
 
 /// A key: a known request field, a summary field, or any text.
 fn key_token() -> BoxedStrategy<String> {
-    let known: Vec<&str> = design_fields().into_iter().chain(["n", "data", "curves"]).chain(tern::engine::family::data_keys()).collect();
+    let known: Vec<&str> = design_fields().into_iter().chain(["n", "data", "curves", tern::engine::family::INTERVAL_LEVEL.key]).chain(tern::engine::family::data_keys()).collect();
     prop_oneof![
         4 => prop::sample::select(known).prop_map(|s| format!("\"{s}\"")),
         1 => string_token(),
@@ -374,13 +374,15 @@ fn structured_for(family: &'static str, alternative: &'static str) -> BoxedStrat
         prop::option::weighted(0.4, data(family)),
         prop::option::weighted(0.3, prop::bool::weighted(0.9)),
         prop::option::weighted(0.03, (stray, number_token())),
+        // The decision's confidence level: open unit, like a proportion.
+        prop::option::weighted(0.2, value(FieldKind::Proportion)),
     )
-        .prop_map(move |(effect, alpha, beta, weight, ratio, n, data, curves, stray)| {
+        .prop_map(move |(effect, alpha, beta, weight, ratio, n, data, curves, stray, level)| {
             let mut fields = vec![("family", format!("\"{family}\"")), ("alternative", format!("\"{alternative}\""))];
             fields.extend(effect);
             fields.push(("alpha_max", alpha));
             fields.push(("beta_max", beta));
-            let optional = [("weight", weight), ("ratio", ratio), ("n", n), ("data", data), ("curves", curves.map(|c| c.to_string()))];
+            let optional = [("weight", weight), ("ratio", ratio), ("n", n), ("data", data), ("curves", curves.map(|c| c.to_string())), ("interval_level", level)];
             fields.extend(optional.into_iter().filter_map(|(k, v)| v.map(|v| (k, v))));
             fields.extend(stray);
             let inner: Vec<String> = fields.into_iter().map(|(k, v)| format!("\"{k}\": {v}")).collect();

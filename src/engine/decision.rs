@@ -9,6 +9,8 @@
 use super::design::{Design, Effect, Family};
 use super::family::Shape;
 use super::dist::{Continuous, Discrete};
+use super::family::{Check, INTERVAL_LEVEL};
+use super::interval::{EffectSize, Interval, check_level, confidence_interval, default_level, effect_size};
 use super::evaluate::{EvaluateError, Evaluation, evaluate_observed, sig3};
 use super::model::{Observed, Sampling};
 use super::threshold::{Alternative, distance_tolerance};
@@ -107,6 +109,16 @@ pub struct Decision {
     /// The design at the actual sample size.
     pub at_n: Evaluation,
     pub conventional: ConventionalReading,
+    /// The estimate's two-sided confidence interval (`interval`); its level
+    /// follows α_max unless the request names one. None only when it is
+    /// not a finite number, and `omitted` says why.
+    pub interval: Option<Interval>,
+    /// The family's standardised effect size (`interval::effect_size`);
+    /// None only when undefined, and `omitted` says why.
+    pub effect_size: Option<EffectSize>,
+    /// Why `interval` or `effect_size` is None, one sentence each (empty
+    /// when both are given).
+    pub omitted: Vec<String>,
 }
 
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -123,7 +135,7 @@ pub enum DecisionError {
     Evaluate(#[from] EvaluateError),
 }
 
-fn count(field: &'static str, v: f64, min: f64) -> Result<u64, DecisionError> {
+pub(super) fn count(field: &'static str, v: f64, min: f64) -> Result<u64, DecisionError> {
     if v.is_finite() && v.fract() == 0.0 && v >= min && v <= 1e7 {
         Ok(v as u64)
     } else {
@@ -132,16 +144,30 @@ fn count(field: &'static str, v: f64, min: f64) -> Result<u64, DecisionError> {
     }
 }
 
-fn finite(field: &'static str, v: f64) -> Result<f64, DecisionError> {
+pub(super) fn finite(field: &'static str, v: f64) -> Result<f64, DecisionError> {
     if v.is_finite() { Ok(v) } else { Err(DecisionError::Value { field, value: v, rule: "a finite number" }) }
 }
 
-fn sd(field: &'static str, v: f64) -> Result<f64, DecisionError> {
+pub(super) fn sd(field: &'static str, v: f64) -> Result<f64, DecisionError> {
     if v.is_finite() && v > 0.0 {
         Ok(v)
     } else {
         Err(DecisionError::Value { field, value: v, rule: "a finite number > 0 (with sd = 0 the t statistic is undefined)" })
     }
+}
+
+/// A count of successes: a whole number from 0 to the `n` trials.
+pub(super) fn successes(field: &'static str, x: f64, n: u64) -> Result<u64, DecisionError> {
+    if x.is_finite() && x.fract() == 0.0 && x >= 0.0 && x <= n as f64 {
+        Ok(x as u64)
+    } else {
+        Err(DecisionError::Value { field, value: x, rule: "a whole number from 0 to the number of trials" })
+    }
+}
+
+/// The refusal of data of another shape than the family decides from.
+pub(super) fn wrong_kind(family: Family, data: &Summary) -> DecisionError {
+    DecisionError::WrongKind { given: kind(data), family: family.id(), needs: family.entry().data_keys() }
 }
 
 fn kind(s: &Summary) -> &'static str {
@@ -153,11 +179,23 @@ fn kind(s: &Summary) -> &'static str {
     }
 }
 
-/// Decide from summary data.
+/// Decide from summary data, with the confidence interval at the level
+/// that follows α_max (`interval::default_level`).
 pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError> {
+    decide_at_level(design, data, None)
+}
+
+/// [`decide`] with the confidence interval at `level` (in (0, 1); None:
+/// the level that follows α_max). A level outside (0, 1) is refused,
+/// named `interval_level`.
+pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> Result<Decision, DecisionError> {
+    let level = match level {
+        Some(l) => Some(check_level(l).map_err(|_| DecisionError::Value { field: INTERVAL_LEVEL.key, value: l, rule: Check::OpenUnit.rule() })?),
+        None => None,
+    };
     let (theta0, _) = design.effect.thetas();
     let family = design.family;
-    let wrong = || DecisionError::WrongKind { given: kind(data), family: family.id(), needs: family.entry().data_keys() };
+    let wrong = || wrong_kind(family, data);
     // Statistic, estimate, group sizes and observed spreads.
     let (t, estimate, n1, n2, obs) = match (family, *data) {
         (Family::MeanZ, Summary::OneGroup { n, mean, .. }) => {
@@ -190,23 +228,17 @@ pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError
             let obs = Observed { sd1: Some(s1), sd2: Some(s2), se0: None };
             ((diff - theta0) / se, diff, n1, Some(n2), obs)
         }
-        (Family::ProportionExact | Family::ProportionNormal, Summary::Proportion { successes, trials }) => {
+        (Family::ProportionExact | Family::ProportionNormal, Summary::Proportion { successes: x, trials }) => {
             let n = count("data.trials", trials, 1.0)?;
-            let x = successes;
-            if !(x.is_finite() && x.fract() == 0.0 && x >= 0.0 && x <= n as f64) {
-                return Err(DecisionError::Value { field: "data.successes", value: x, rule: "a whole number from 0 to the number of trials" });
-            }
+            let x = successes("data.successes", x, n)? as f64;
             let p_hat = x / n as f64;
             let t = if family == Family::ProportionExact { x } else { (p_hat - theta0) / (theta0 * (1.0 - theta0) / n as f64).sqrt() };
             (t, p_hat, n, None, Observed::default())
         }
         (Family::TwoProportions, Summary::TwoProportions { successes1, trials1, successes2, trials2 }) => {
             let (n1, n2) = (count("data.trials1", trials1, 1.0)?, count("data.trials2", trials2, 1.0)?);
-            for (field, x, n) in [("data.successes1", successes1, n1), ("data.successes2", successes2, n2)] {
-                if !(x.is_finite() && x.fract() == 0.0 && x >= 0.0 && x <= n as f64) {
-                    return Err(DecisionError::Value { field, value: x, rule: "a whole number from 0 to the number of trials" });
-                }
-            }
+            let successes1 = successes("data.successes1", successes1, n1)? as f64;
+            let successes2 = successes("data.successes2", successes2, n2)? as f64;
             let (a, b) = (n1 as f64, n2 as f64);
             let pooled = (successes1 + successes2) / (a + b);
             if pooled <= 0.0 || pooled >= 1.0 {
@@ -260,6 +292,13 @@ pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError
         Outcome::DoNotRejectH0
     };
     let reading = reading(design, &at_n, outcome, t, estimate);
+    let mut omitted = Vec::new();
+    let interval = level
+        .map_or_else(|| default_level(design.alternative, design.alpha_max), Ok)
+        .and_then(|l| confidence_interval(design, data, l))
+        .map_err(|e| omitted.push(format!("No confidence interval: {e}.")))
+        .ok();
+    let effect_size = effect_size(design, data).map_err(|e| omitted.push(format!("No standardised effect size: {e}."))).ok();
     Ok(Decision {
         outcome,
         reading,
@@ -267,6 +306,9 @@ pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError
         estimate,
         conventional: ConventionalReading { p_value, rejects_at_alpha_max: p_value <= design.alpha_max },
         at_n,
+        interval,
+        effect_size,
+        omitted,
     })
 }
 

@@ -295,6 +295,17 @@ pub const LIMITS: [Field; 3] = [
 /// The sample size to check (per group for two groups).
 pub const SIZE: Field = optional(field("n", "Sample size you already have", "a sample size", Input::Whole, Check::Whole));
 
+/// The confidence level of the decision's interval, when the analyst
+/// wants another than the one that follows α_max (1 − 2·α_max one-sided,
+/// 1 − α_max two-sided; `interval::default_level`).
+pub const INTERVAL_LEVEL: Field = optional(field(
+    "interval_level",
+    "Confidence level of the interval",
+    "the confidence level of the interval",
+    Input::Rate,
+    Check::OpenUnit,
+));
+
 /// The standardised effect, accepted instead of θ0, θ1 and σ where a
 /// family allows it.
 pub const STANDARDISED: Field = field("d", "Standardised effect d", "the standardised effect d", Input::Number, Check::Finite);

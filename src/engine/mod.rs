@@ -15,6 +15,7 @@ pub mod evaluate;
 pub mod model;
 pub mod sample_size;
 pub mod decision;
+pub mod interval;
 pub mod curves;
 pub mod inverse;
 pub mod context;

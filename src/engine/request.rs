@@ -7,7 +7,7 @@
 //! that a typo (`alpah_max`) cannot silently drop a limit.
 
 use super::curves::{Curves, curves};
-use super::decision::{Decision, DecisionError, Summary, decide};
+use super::decision::{Decision, DecisionError, Summary, decide, decide_at_level};
 use super::design::{Design, DesignError, DesignSpec, Family};
 use super::family;
 use super::evaluate::{EvaluateError, Evaluation, evaluate};
@@ -30,7 +30,7 @@ pub fn design_fields() -> Vec<&'static str> {
     v.extend(family::design_keys());
     v
 }
-const OTHER_FIELDS: [&str; 3] = ["n", "data", "curves"];
+const OTHER_FIELDS: [&str; 4] = ["n", "data", "curves", family::INTERVAL_LEVEL.key];
 
 /// What is wrong with a request.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -64,6 +64,9 @@ pub struct Request {
     pub curves: bool,
     /// The design's words and dropout ([`context`]).
     pub context: Context,
+    /// The decision's confidence level, when not the one that follows
+    /// α_max (`interval_level`, in (0, 1)).
+    pub interval_level: Option<f64>,
 }
 
 /// The full answer.
@@ -191,7 +194,17 @@ pub fn parse_value(value: &Value) -> Result<Request, RequestError> {
         Some(Value::Bool(b)) => *b,
         Some(v) => return Err(RequestError::BadValue { field: "curves".into(), shown: shown(v), rule: "true or false".into() }),
     };
-    Ok(Request { design, n, data, curves, context })
+    let interval_level = interval_level(obj)?;
+    Ok(Request { design, n, data, curves, context, interval_level })
+}
+
+/// `interval_level`, if given: a number in (0, 1).
+fn interval_level(obj: &Map<String, Value>) -> Result<Option<f64>, RequestError> {
+    let field = &family::INTERVAL_LEVEL;
+    match number(obj, field.key, "")? {
+        Some(v) if !field.check.holds(v) => Err(RequestError::BadValue { field: field.key.into(), shown: format!("{v}"), rule: field.check.rule().into() }),
+        v => Ok(v),
+    }
 }
 
 /// A typed n checked against the design's range.
@@ -219,7 +232,7 @@ fn summary(d: &Map<String, Value>, family: Family) -> Result<Summary, RequestErr
 /// Answer a parsed request.
 pub fn answer(req: &Request) -> Result<Answer, RequestError> {
     let decision = match &req.data {
-        Some(d) => Some(decide(&req.design, d)?),
+        Some(d) => Some(decide_at_level(&req.design, d, req.interval_level)?),
         None => None,
     };
     answer_with(req, decision)
@@ -316,7 +329,7 @@ pub fn reply(ask: &Ask) -> Reply {
             Err(e) => errors.push(e.into()),
         }
     }
-    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone() };
+    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone(), interval_level: None };
     let answer = match answer_with(&req, decision) {
         Ok(a) => a,
         Err(e) => {
