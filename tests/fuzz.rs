@@ -162,7 +162,12 @@ static FAMILY_IDS: std::sync::LazyLock<Vec<&'static str>> = std::sync::LazyLock:
 
 /// A key: a known request field, a summary field, or any text.
 fn key_token() -> BoxedStrategy<String> {
-    let known: Vec<&str> = design_fields().into_iter().chain(["n", "data", "curves", tern::engine::family::INTERVAL_LEVEL.key]).chain(tern::engine::family::data_keys()).collect();
+    let known: Vec<&str> = design_fields()
+        .into_iter()
+        .chain(["n", "data", "curves", tern::engine::family::INTERVAL_LEVEL.key])
+        .chain(tern::engine::context::FIELDS)
+        .chain(tern::engine::family::data_keys())
+        .collect();
     prop_oneof![
         4 => prop::sample::select(known).prop_map(|s| format!("\"{s}\"")),
         1 => string_token(),
@@ -208,6 +213,8 @@ fn json_document() -> BoxedStrategy<String> {
 /// JSON, a refusal must say something.
 fn check_request(text: String) -> Result<(), TestCaseError> {
     let shown = if text.len() > 2000 { format!("{}…", &text[..text.char_indices().nth(2000).map_or(text.len(), |(k, _)| k)]) } else { text.clone() };
+    // Requests with study notes also build the report, in every format.
+    let (text_has_notes, report_text) = (text.contains("\"notes\""), text.clone());
     let started = Instant::now();
     let out = bounded(&format!("run({shown})"), move || run(&text).map_err(|e| e.to_string()))?;
     if started.elapsed() > SLOW {
@@ -220,6 +227,19 @@ fn check_request(text: String) -> Result<(), TestCaseError> {
                 .map_err(|e| TestCaseError::fail(format!("run({shown}) answered text that is not JSON: {e}")))?;
         }
         Err(msg) => prop_assert!(!msg.trim().is_empty(), "run({shown}) refused with an empty message"),
+    }
+    if text_has_notes {
+        let started = Instant::now();
+        let out = bounded(&format!("report({shown})"), move || {
+            tern::report::prepare(&report_text, tern::report::Stamp::today("2026-12-03".into())).map(|p| (p.html(), p.markdown(), p.json())).map_err(|e| e.to_string())
+        })?;
+        if started.elapsed() > SLOW {
+            println!("slow report ({:.1} s): {shown}", started.elapsed().as_secs_f64());
+        }
+        match out {
+            Ok((html, md, json)) => prop_assert!(html.ends_with("</html>\n") && !md.is_empty() && !json.is_empty(), "report({shown}) is incomplete"),
+            Err(msg) => prop_assert!(!msg.trim().is_empty(), "report({shown}) refused with an empty message"),
+        }
     }
     Ok(())
 }
@@ -376,8 +396,11 @@ fn structured_for(family: &'static str, alternative: &'static str) -> BoxedStrat
         prop::option::weighted(0.03, (stray, number_token())),
         // The decision's confidence level: open unit, like a proportion.
         prop::option::weighted(0.2, value(FieldKind::Proportion)),
+        // The report's own fields: a dropout share and texts (these cases
+        // also build the report).
+        prop::option::weighted(0.15, (value(FieldKind::Proportion), string_token(), string_token())),
     )
-        .prop_map(move |(effect, alpha, beta, weight, ratio, n, data, curves, stray, level)| {
+        .prop_map(move |(effect, alpha, beta, weight, ratio, n, data, curves, stray, level, report)| {
             let mut fields = vec![("family", format!("\"{family}\"")), ("alternative", format!("\"{alternative}\""))];
             fields.extend(effect);
             fields.push(("alpha_max", alpha));
@@ -385,6 +408,9 @@ fn structured_for(family: &'static str, alternative: &'static str) -> BoxedStrat
             let optional = [("weight", weight), ("ratio", ratio), ("n", n), ("data", data), ("curves", curves.map(|c| c.to_string())), ("interval_level", level)];
             fields.extend(optional.into_iter().filter_map(|(k, v)| v.map(|v| (k, v))));
             fields.extend(stray);
+            if let Some((dropout, unit, notes)) = report {
+                fields.extend([("dropout", dropout), ("unit", unit), ("notes", notes)]);
+            }
             let inner: Vec<String> = fields.into_iter().map(|(k, v)| format!("\"{k}\": {v}")).collect();
             format!("{{{}}}", inner.join(", "))
         })
@@ -398,7 +424,7 @@ fn registry_request(entry: &'static Entry) -> BoxedStrategy<String> {
     let kind = |f: &Field| match (f.check, f.read) {
         (_, Input::Whole) | (Check::Whole, _) => FieldKind::Count,
         (Check::Positive, _) => FieldKind::Spread,
-        (Check::OpenUnit, _) => FieldKind::Proportion,
+        (Check::OpenUnit | Check::Dropout, _) => FieldKind::Proportion,
         (Check::Ratio, _) => FieldKind::Ratio,
         (Check::Limit, _) => FieldKind::Limit,
         (Check::Finite, _) => FieldKind::Mean,

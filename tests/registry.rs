@@ -78,7 +78,7 @@ fn every_family_decides_through_the_page_form() {
         for f in e.data.iter().filter(|f| f.required) {
             values.push((f.input.into(), figure(f.key).to_string()));
         }
-        let text = FormText { family: Some(e.id.into()), alternative: Some("greater".into()), unit: String::new(), values };
+        let text = FormText { family: Some(e.id.into()), alternative: Some("greater".into()), unit: String::new(), values, texts: Vec::new() };
         let reading = form::read(&text);
         assert!(reading.design_ready() && reading.data_complete, "{}: {:?}", e.id, reading.messages);
         let reply = request::reply(&reading.ask);

@@ -62,7 +62,7 @@ fn html_report_is_self_contained_and_its_charts_are_svg() {
     assert!(html.contains("&lt;b&gt;not markup&lt;/b&gt;"));
     assert!(html.contains("Decision support only"));
     for id in ["study", "design", "threshold", "sample-size", "decision", "charts", "reproduce"] {
-        assert!(html.contains(&format!("<section id=\"{id}\">")), "section {id}");
+        assert!(html.contains(&format!("<section id=\"report-{id}\">")), "section {id}");
     }
 }
 

@@ -7,6 +7,7 @@
 //! The unit, the source, the reason and the dropout are kept with a design
 //! (and travel in its link); the study notes go only into a report.
 
+use super::family::DROPOUT;
 use super::request::RequestError;
 use super::sample_size::GroupSizes;
 use serde::Serialize;
@@ -16,15 +17,12 @@ use serde_json::{Map, Value};
 /// (in characters): enough for a paragraph, not for a data file.
 pub const TEXT_FIELDS: [(&str, usize); 4] = [("unit", 40), ("planning_source", 2_000), ("limits_reason", 2_000), ("notes", 20_000)];
 
-/// The number field of the contract: the expected dropout share, in [0, 0.95].
-pub const DROPOUT: &str = "dropout";
+/// Every contract field of this module: the texts and the dropout share
+/// ([`DROPOUT`], with its rule).
+pub const FIELDS: [&str; 5] = ["unit", "planning_source", "limits_reason", "notes", DROPOUT.key];
 
-/// The largest dropout share taken: above it the number to enrol is more
-/// than twenty times the sample size, which is no plan.
-pub const DROPOUT_MAX: f64 = 0.95;
-
-/// Every contract field of this module.
-pub const FIELDS: [&str; 5] = ["unit", "planning_source", "limits_reason", "notes", DROPOUT];
+/// The fields kept with a design and put in its link: all but the notes.
+pub const KEPT: [&str; 4] = ["unit", "planning_source", "limits_reason", DROPOUT.key];
 
 /// The design's own words and its dropout; empty text when not given.
 #[derive(Debug, Clone, Default, PartialEq, Serialize)]
@@ -75,10 +73,10 @@ pub fn parse(obj: &Map<String, Value>) -> Result<Context, RequestError> {
             _ => c.notes = text,
         }
     }
-    c.dropout = match obj.get(DROPOUT) {
+    c.dropout = match obj.get(DROPOUT.key) {
         None | Some(Value::Null) => None,
         Some(Value::Number(x)) => match x.as_f64() {
-            Some(q) if (0.0..=DROPOUT_MAX).contains(&q) => Some(q),
+            Some(q) if DROPOUT.check.holds(q) => Some(q),
             _ => return Err(bad_dropout(x.to_string())),
         },
         Some(v) => return Err(bad_dropout(v.to_string())),
@@ -87,7 +85,23 @@ pub fn parse(obj: &Map<String, Value>) -> Result<Context, RequestError> {
 }
 
 fn bad_dropout(shown: String) -> RequestError {
-    RequestError::BadValue { field: DROPOUT.into(), shown, rule: format!("a share from 0 to {DROPOUT_MAX} (0.15 for 15 %)") }
+    RequestError::BadValue { field: DROPOUT.key.into(), shown, rule: DROPOUT.check.rule().into() }
+}
+
+/// Write the fields of `c` that are given into a request object: the kept
+/// ones (`KEPT`), and the notes too when `with_notes`.
+pub fn put(c: &Context, obj: &mut Map<String, Value>, with_notes: bool) {
+    for (key, text) in [("unit", &c.unit), ("planning_source", &c.planning_source), ("limits_reason", &c.limits_reason)] {
+        if !text.is_empty() {
+            obj.insert(key.into(), Value::String(text.clone()));
+        }
+    }
+    if with_notes && !c.notes.is_empty() {
+        obj.insert("notes".into(), Value::String(c.notes.clone()));
+    }
+    if let Some(q) = c.dropout {
+        obj.insert(DROPOUT.key.into(), super::request::json_number(q));
+    }
 }
 
 #[cfg(test)]
@@ -110,6 +124,9 @@ mod tests {
         let obj = |t: &str| serde_json::from_str::<Map<String, Value>>(t).unwrap();
         let e = parse(&obj(r#"{"dropout": 1}"#)).unwrap_err().to_string();
         assert!(e.contains("dropout") && e.contains("0.95"), "{e}");
+        let mut back = Map::new();
+        put(&parse(&obj(r#"{"unit": "days", "notes": "n", "dropout": 0.2}"#)).unwrap(), &mut back, false);
+        assert_eq!(serde_json::Value::Object(back).to_string(), r#"{"dropout":0.2,"unit":"days"}"#);
         let e = parse(&obj(r#"{"unit": 3}"#)).unwrap_err().to_string();
         assert!(e.starts_with("unit"), "{e}");
         let long = format!(r#"{{"limits_reason": "{}"}}"#, "x".repeat(2001));

@@ -63,7 +63,13 @@ pub enum Check {
     Ratio,
     /// A whole number; its range is the design's (`n`) or the data's.
     Whole,
+    /// A dropout share: from 0 to [`DROPOUT_MAX`].
+    Dropout,
 }
+
+/// The largest dropout share taken: above it the number to enrol is more
+/// than twenty times the sample size, which is no plan.
+pub const DROPOUT_MAX: f64 = 0.95;
 
 impl Check {
     /// The rule in words, as messages state it.
@@ -75,6 +81,7 @@ impl Check {
             Check::Limit => "between 0 and 0.5 (exclusive)",
             Check::Ratio => "between 0 and 100 (n2 = ratio·n1)",
             Check::Whole => "a whole number",
+            Check::Dropout => "a share from 0 to 0.95 (0.15 or 15% for 15 in 100 lost)",
         }
     }
 
@@ -88,6 +95,7 @@ impl Check {
             Check::Limit => v > 0.0 && v < 0.5,
             Check::Ratio => v.is_finite() && v > 0.0 && v <= 100.0,
             Check::Whole => v.is_finite() && v.fract() == 0.0,
+            Check::Dropout => (0.0..=DROPOUT_MAX).contains(&v),
         }
     }
 }
@@ -304,6 +312,16 @@ pub const INTERVAL_LEVEL: Field = optional(field(
     "the confidence level of the interval",
     Input::Rate,
     Check::OpenUnit,
+));
+
+/// The expected share of participants lost before the end: the number to
+/// enrol is ⌈n / (1 − dropout)⌉ per group (`context::enrolment`).
+pub const DROPOUT: Field = optional(field(
+    "dropout",
+    "Expected dropout, the share lost before the end (e.g. 15%)",
+    "the expected dropout share",
+    Input::Rate,
+    Check::Dropout,
 ));
 
 /// The standardised effect, accepted instead of θ0, θ1 and σ where a

@@ -7,7 +7,7 @@
 //! that a typo (`alpah_max`) cannot silently drop a limit.
 
 use super::curves::{Curves, curves};
-use super::decision::{Decision, DecisionError, Summary, decide, decide_at_level};
+use super::decision::{Decision, DecisionError, Summary, decide_at_level};
 use super::design::{Design, DesignError, DesignSpec, Family};
 use super::family;
 use super::evaluate::{EvaluateError, Evaluation, evaluate};
@@ -287,6 +287,8 @@ pub struct Ask {
     pub data: Option<Vec<(&'static str, f64)>>,
     /// The design's words and dropout.
     pub context: Context,
+    /// The decision's confidence level, when not the one that follows α_max.
+    pub interval_level: Option<f64>,
 }
 
 /// A sample size checked on its own: the design there and the smallest
@@ -324,12 +326,12 @@ pub fn reply(ask: &Ask) -> Reply {
     let summary = ask.data.as_ref().and_then(|d| Summary::from_fields(design.family, d).map_err(|e| errors.push(e.into())).ok());
     let mut decision = None;
     if let Some(s) = &summary {
-        match decide(&design, s) {
+        match decide_at_level(&design, s, ask.interval_level) {
             Ok(d) => decision = Some(d),
             Err(e) => errors.push(e.into()),
         }
     }
-    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone(), interval_level: None };
+    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone(), interval_level: ask.interval_level };
     let answer = match answer_with(&req, decision) {
         Ok(a) => a,
         Err(e) => {

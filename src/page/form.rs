@@ -11,7 +11,9 @@
 use crate::engine::decision::DecisionError;
 use crate::engine::design::{DesignError, DesignSpec, Family};
 use crate::engine::evaluate::EvaluateError;
-use crate::engine::family::{self, Field, Input, LIMITS, REGISTRY, SIZE};
+use crate::engine::context::{self, Context};
+use crate::engine::request;
+use crate::engine::family::{self, DROPOUT, Field, INTERVAL_LEVEL, Input, LIMITS, REGISTRY, SIZE};
 use crate::engine::model::ModelError;
 use crate::engine::request::{Ask, RequestError};
 use crate::engine::threshold::Alternative;
@@ -23,11 +25,18 @@ pub enum Part {
     Design,
     /// Step 1: the limits and the cost weight, shown for every family.
     Limits,
-    /// Step 2: a sample size to check.
+    /// Step 2: a sample size to check, and the expected dropout.
     Size,
     /// Step 3: summary figures.
     Data,
+    /// Step 3: the confidence level of the decision's interval.
+    Level,
 }
+
+/// The form's texts for the report, by input name (the JSON field of the
+/// same name): the study notes, where the planning values come from and
+/// why the limits. Kept as typed; only the report reads them.
+pub const TEXTS: [&str; 3] = ["notes", "planning_source", "limits_reason"];
 
 /// One input of the page: its name (`f-NAME` is its element), its part and
 /// how its text is read.
@@ -64,6 +73,8 @@ fn build_inputs() -> Vec<PageInput> {
         push(f, Part::Limits);
     }
     push(&SIZE, Part::Size);
+    push(&DROPOUT, Part::Size);
+    push(&INTERVAL_LEVEL, Part::Level);
     for e in &REGISTRY {
         for f in e.data.iter().filter(|f| f.required) {
             push(f, Part::Data);
@@ -82,7 +93,7 @@ fn family_fields(f: Family) -> impl Iterator<Item = (&'static Field, Part)> {
 /// The inputs shown for a family (none of the family-specific ones when
 /// no family is chosen).
 pub fn shown(family: Option<Family>) -> Vec<&'static str> {
-    let mut v: Vec<&'static str> = LIMITS.iter().map(|f| f.input).chain([SIZE.input]).collect();
+    let mut v: Vec<&'static str> = LIMITS.iter().map(|f| f.input).chain([SIZE.input, DROPOUT.input, INTERVAL_LEVEL.input]).collect();
     if let Some(f) = family {
         v.extend(family_fields(f).map(|(f, _)| f.input));
     }
@@ -106,13 +117,15 @@ pub struct FieldMessage {
 }
 
 /// What the form holds, as text: the chosen family and direction, the
-/// unit, and the text of every input by name.
+/// unit, the text of every input by name, and the report's texts
+/// ([`TEXTS`]) by name.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct FormText {
     pub family: Option<String>,
     pub alternative: Option<String>,
     pub unit: String,
     pub values: Vec<(String, String)>,
+    pub texts: Vec<(String, String)>,
 }
 
 impl FormText {
@@ -226,6 +239,32 @@ pub fn read(text: &FormText) -> Reading {
             Err(t) => r.messages.push(FieldMessage { field: field.input.into(), text: capital(&t), invalid: true }),
         }
     }
+    // The dropout and the interval's level: optional, each with its rule.
+    for field in [&DROPOUT, &INTERVAL_LEVEL] {
+        let raw = text.get(field.input);
+        if raw.trim().is_empty() {
+            continue;
+        }
+        match parse(raw, field.read) {
+            Ok(v) if field.check.holds(v) => {
+                if field.key == DROPOUT.key {
+                    r.ask.context.dropout = Some(v);
+                } else {
+                    r.ask.interval_level = Some(v);
+                }
+            }
+            Ok(_) => r.messages.push(FieldMessage { field: field.input.into(), text: format!("Must be {}.", field.check.rule()), invalid: true }),
+            Err(t) => r.messages.push(FieldMessage { field: field.input.into(), text: capital(&t), invalid: true }),
+        }
+    }
+    let said = |name: &str| text.texts.iter().find(|(k, _)| k == name).map_or(String::new(), |(_, v)| v.trim().to_string());
+    r.ask.context = Context {
+        unit: r.unit.clone(),
+        planning_source: said("planning_source"),
+        limits_reason: said("limits_reason"),
+        notes: said("notes"),
+        dropout: r.ask.context.dropout,
+    };
     let raw_n = text.get(SIZE.input);
     if !raw_n.trim().is_empty() {
         match parse(raw_n, SIZE.read) {
@@ -264,6 +303,24 @@ pub fn read(text: &FormText) -> Reading {
     }
     r.ask.spec = spec;
     r
+}
+
+/// The form as a request document, as `tern run` and `tern report` read
+/// it: the design (`request::design_json`), the context with the study
+/// notes, the summary figures under `data` and the interval's level. The
+/// page's report is built from exactly this text, so the command line
+/// builds the same report from it.
+pub fn request_json(ask: &Ask) -> serde_json::Map<String, serde_json::Value> {
+    let mut obj = request::design_json(&ask.spec, ask.n);
+    context::put(&ask.context, &mut obj, true);
+    if let Some(data) = &ask.data {
+        let d: serde_json::Map<String, serde_json::Value> = data.iter().map(|(k, v)| (k.to_string(), request::json_number(*v))).collect();
+        obj.insert("data".into(), serde_json::Value::Object(d));
+    }
+    if let Some(level) = ask.interval_level {
+        obj.insert(INTERVAL_LEVEL.key.into(), request::json_number(level));
+    }
+    obj
 }
 
 fn capital(s: &str) -> String {
@@ -369,7 +426,27 @@ mod tests {
             alternative: Some(alternative.into()),
             unit: "days".into(),
             values: values.iter().map(|(k, v)| (k.to_string(), v.to_string())).collect(),
+            texts: vec![("planning_source".into(), " pilot ".into())],
         }
+    }
+
+    /// The dropout and the interval's level are read with their rules, and
+    /// the texts go to the context as typed (trimmed).
+    #[test]
+    fn dropout_level_and_texts_are_read() {
+        let base = [("theta0", "0"), ("theta1", "1"), ("sigma", "2"), ("alpha_max", "0.05"), ("beta_max", "0.2")];
+        let mut v = base.to_vec();
+        v.extend([("dropout", "15%"), ("interval_level", "0.9")]);
+        let r = read(&text("mean_t", "greater", &v));
+        assert_eq!((r.ask.context.dropout, r.ask.interval_level), (Some(0.15), Some(0.9)));
+        assert_eq!((r.ask.context.planning_source.as_str(), r.ask.context.unit.as_str()), ("pilot", "days"));
+        let mut v = base.to_vec();
+        v.extend([("dropout", "0.97"), ("interval_level", "1")]);
+        let r = read(&text("mean_t", "greater", &v));
+        let at = |f: &str| r.messages.iter().find(|m| m.field == f).map(|m| m.text.clone()).unwrap_or_default();
+        assert!(at("dropout").contains("from 0 to 0.95"), "{}", at("dropout"));
+        assert!(at("interval_level").contains("between 0 and 1"), "{}", at("interval_level"));
+        assert!(r.design_ready(), "a bad dropout does not stop the design");
     }
 
     #[test]

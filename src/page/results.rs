@@ -21,6 +21,8 @@ pub struct SizeCard {
     pub headline: String,
     pub detail: String,
     pub conventional: String,
+    /// With a dropout share: the number to enrol.
+    pub enrol: String,
     pub notes: Vec<String>,
     /// The balancing cost weight as shown, and the button's words.
     pub balancing: Option<(String, String)>,
@@ -94,6 +96,7 @@ pub fn incomplete(still_needed: &[String]) -> SizeCard {
         headline: "Not yet: the design is incomplete".into(),
         detail,
         conventional: String::new(),
+        enrol: String::new(),
         notes: Vec::new(),
         balancing: None,
         verdict: String::new(),
@@ -153,7 +156,10 @@ pub fn size_card(ans: &Answer, unit: &str) -> SizeCard {
         notes.push(format!("Counts jump in steps, so conclusiveness can come and go as n grows: every n from {} up to {to} is conclusive.", st.n1));
     }
     let verdict = ans.at_n.as_ref().map(at_n_text).unwrap_or_default();
-    SizeCard { state, headline, detail, conventional, notes, balancing, verdict }
+    let enrol = ans.enrolment.map_or(String::new(), |e| {
+        format!("With {} expected dropout, enrol {} (⌈n / (1 − dropout)⌉ per group).", percent(e.dropout), sizes(e.enrol.n1, e.enrol.n2))
+    });
+    SizeCard { state, headline, detail, conventional, enrol, notes, balancing, verdict }
 }
 
 /// The decision card of an answer (None: no data decided).
@@ -181,6 +187,14 @@ pub fn decide_card(ans: &Answer, unit: &str) -> Option<DecideCard> {
         ("conventional critical value".to_string(), conventional_text(at)),
         ("conventional power at θ1".to_string(), prob(at.conventional.power)),
     ];
+    let mut rows = rows;
+    if let Some(ci) = &d.interval {
+        rows.push((format!("{} confidence interval", percent(ci.level)), format!("{}{u} to {}{u} ({})", short(ci.low), short(ci.high), ci.method)));
+    }
+    if let Some(es) = &d.effect_size {
+        rows.push((format!("effect size, {}", es.name), format!("{} = {}", es.symbol, short(es.value))));
+    }
+    rows.extend(d.omitted.iter().map(|why| ("not given".to_string(), why.clone())));
     Some(DecideCard { state, title: title.into(), reading: d.reading.clone(), rows })
 }
 
@@ -196,6 +210,12 @@ pub fn check_text(check: &Check) -> String {
         None => text.push_str(" No effect in range makes the design conclusive at this n."),
     }
     text
+}
+
+/// A share as a percentage without needless decimals: 0.15 → "15%".
+pub fn percent(x: f64) -> String {
+    let s = format!("{:.2}", x * 100.0);
+    format!("{}%", s.trim_end_matches('0').trim_end_matches('.'))
 }
 
 /// What the threshold minimises: α + β in Youden's case, else the weighted sum.

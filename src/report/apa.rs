@@ -102,9 +102,7 @@ pub fn statistic(symbol_text: &str, degrees: Option<f64>, value: f64) -> Vec<Inl
 /// A level as a percentage without needless decimals: 0.95 → "95%",
 /// 0.975 → "97.5%".
 pub fn percent(level: f64) -> String {
-    let s = format!("{:.2}", level * 100.0);
-    let s = s.trim_end_matches('0').trim_end_matches('.');
-    format!("{s}%")
+    crate::page::results::percent(level)
 }
 
 /// 95% CI [−4.21, −0.35], the bounds with `decimals` decimals.

@@ -8,32 +8,36 @@ use super::apa::Inline;
 use super::{Block, Report, Table};
 use crate::page::html::escape;
 
-/// The style: screen and print. Charts scale to the text width; in print
-/// each section starts its headings with the text that follows and no
-/// figure or table is cut by a page break.
-const STYLE: &str = "\
-:root { color-scheme: light; }
-body { font: 11pt/1.45 system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif; color: #111; background: #fff; max-width: 48rem; margin: 2rem auto; padding: 0 1rem; }
-h1 { font-size: 1.6rem; margin-bottom: .2rem; }
-h2 { font-size: 1.2rem; margin-top: 2rem; border-bottom: 1px solid #999; padding-bottom: .2rem; }
-.stamp { color: #333; margin-top: 0; }
-.caution { border: 2px solid #111; padding: .6rem .8rem; font-weight: 600; }
-table { border-collapse: collapse; margin: .6rem 0; font-size: .92em; }
-caption { text-align: left; font-weight: 600; padding-bottom: .2rem; }
-th, td { border: 1px solid #888; padding: .2rem .45rem; text-align: left; vertical-align: top; }
-table.facts th { font-weight: normal; background: #f2f2f2; }
-figure { margin: 1rem 0; break-inside: avoid; page-break-inside: avoid; }
-figure svg { width: 100%; height: auto; border: 1px solid #ccc; }
-figcaption { font-weight: 600; margin-bottom: .3rem; }
-pre { background: #f4f4f4; border: 1px solid #ccc; padding: .5rem; overflow-x: auto; white-space: pre-wrap; word-break: break-word; font-size: .85em; }
+/// The style: screen and print, every rule under `.tern-report` so that
+/// the page can show the same report beside its own content (it adopts
+/// this sheet through the CSS object model: its policy allows no inline
+/// style). Charts scale to the text width; in print each heading stays
+/// with the text that follows and no figure or table is cut by a page
+/// break.
+pub const STYLE: &str = "\
+body.report-page { margin: 0; background: #fff; }
+.tern-report { font: 11pt/1.45 system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif; color: #111; background: #fff; max-width: 48rem; margin: 2rem auto; padding: 0 1rem; }
+.tern-report h1, .tern-report h2, .tern-report h3 { font-family: inherit; color: #111; }
+.tern-report h1 { font-size: 1.6rem; margin-bottom: .2rem; }
+.tern-report h2 { font-size: 1.2rem; margin-top: 2rem; border-bottom: 1px solid #999; padding-bottom: .2rem; }
+.tern-report .report-stamp { color: #333; margin-top: 0; }
+.tern-report .report-caution { border: 2px solid #111; padding: .6rem .8rem; font-weight: 600; color: #111; background: #fff; }
+.tern-report table { border-collapse: collapse; margin: .6rem 0; font-size: .92em; }
+.tern-report caption { text-align: left; font-weight: 600; padding-bottom: .2rem; }
+.tern-report th, .tern-report td { color: #111; border: 1px solid #888; padding: .2rem .45rem; text-align: left; vertical-align: top; }
+.tern-report table.report-facts th { font-weight: normal; background: #f2f2f2; }
+.tern-report figure { margin: 1rem 0; break-inside: avoid; page-break-inside: avoid; }
+.tern-report figure svg { width: 100%; height: auto; border: 1px solid #ccc; }
+.tern-report figcaption { font-weight: 600; margin-bottom: .3rem; }
+.tern-report pre { background: #f4f4f4; border: 1px solid #ccc; padding: .5rem; overflow-x: auto; white-space: pre-wrap; word-break: break-word; font-size: .85em; }
 @page { margin: 16mm 15mm; }
 @media print {
-  body { max-width: none; margin: 0; padding: 0; font-size: 10pt; }
-  h2 { break-after: avoid; page-break-after: avoid; }
-  table, pre, .caution { break-inside: avoid; page-break-inside: avoid; }
-  section#charts { break-before: page; page-break-before: always; }
-  figure table { font-size: 8pt; }
-  a { color: inherit; text-decoration: none; }
+  .tern-report { max-width: none; margin: 0; padding: 0; font-size: 10pt; }
+  .tern-report h2 { break-after: avoid; page-break-after: avoid; }
+  .tern-report table, .tern-report pre, .tern-report .report-caution { break-inside: avoid; page-break-inside: avoid; }
+  .tern-report section#report-charts { break-before: page; page-break-before: always; }
+  .tern-report figure table { font-size: 8pt; }
+  .tern-report a { color: inherit; text-decoration: none; }
 }
 ";
 
@@ -91,21 +95,20 @@ fn inline_svg(svg: &str, title: &str) -> String {
     body.replacen("<svg", &format!("<svg{extra}"), 1)
 }
 
-/// The whole HTML document.
-pub fn html(r: &Report) -> String {
-    let mut h = String::from("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
-    h.push_str("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">\n");
-    h.push_str("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n");
-    h.push_str(&format!("<title>{}</title>\n<style>\n{STYLE}</style>\n</head>\n<body>\n<main>\n", escape(&r.title)));
-    h.push_str(&format!("<h1>{}</h1>\n<p class=\"stamp\">{}</p>\n", escape(&r.title), escape(&r.stamp.line())));
-    h.push_str(&format!("<p class=\"caution\" role=\"note\">{}</p>\n", escape(&r.caution)));
+/// The report itself, as an `<article class="tern-report">` (the page
+/// shows it as it is; [`html`] wraps it into a document). Ids start with
+/// `report-` so they never meet the page's own.
+pub fn content(r: &Report) -> String {
+    let mut h = String::from("<article class=\"tern-report\" aria-labelledby=\"report-title\">\n");
+    h.push_str(&format!("<h1 id=\"report-title\">{}</h1>\n<p class=\"report-stamp\">{}</p>\n", escape(&r.title), escape(&r.stamp.line())));
+    h.push_str(&format!("<p class=\"report-caution\" role=\"note\">{}</p>\n", escape(&r.caution)));
     for s in &r.sections {
-        h.push_str(&format!("<section id=\"{}\">\n<h2>{}</h2>\n", s.id, escape(&s.title)));
+        h.push_str(&format!("<section id=\"report-{}\">\n<h2>{}</h2>\n", s.id, escape(&s.title)));
         for b in &s.blocks {
             match b {
                 Block::Paragraph(runs) => h.push_str(&format!("<p>{}</p>\n", inlines(runs))),
                 Block::Facts(facts) => {
-                    h.push_str("<table class=\"facts\"><tbody>");
+                    h.push_str("<table class=\"report-facts\"><tbody>");
                     for (k, v) in facts {
                         h.push_str(&format!("<tr><th scope=\"row\">{}</th><td>{}</td></tr>", escape(k), inlines(v)));
                     }
@@ -124,7 +127,7 @@ pub fn html(r: &Report) -> String {
                 }
                 Block::Figure { id, title, svg, numbers } => {
                     h.push_str(&format!(
-                        "<figure id=\"chart-{id}\">\n<figcaption>{}</figcaption>\n{}\n{}\n</figure>\n",
+                        "<figure id=\"report-chart-{id}\">\n<figcaption>{}</figcaption>\n{}\n{}\n</figure>\n",
                         escape(title),
                         inline_svg(svg, title),
                         table(numbers, "")
@@ -135,6 +138,18 @@ pub fn html(r: &Report) -> String {
         }
         h.push_str("</section>\n");
     }
+    h.push_str("</article>\n");
+    h
+}
+
+/// The whole HTML document: the report in a `<main>`, with its style and
+/// its own content policy (no script, nothing from elsewhere).
+pub fn html(r: &Report) -> String {
+    let mut h = String::from("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
+    h.push_str("<meta http-equiv=\"Content-Security-Policy\" content=\"default-src 'none'; style-src 'unsafe-inline'; img-src data:\">\n");
+    h.push_str("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n");
+    h.push_str(&format!("<title>{}</title>\n<style>\n{STYLE}</style>\n</head>\n<body class=\"report-page\">\n<main>\n", escape(&r.title)));
+    h.push_str(&content(r));
     h.push_str("</main>\n</body>\n</html>\n");
     h
 }

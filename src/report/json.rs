@@ -1,5 +1,5 @@
 //! The report as JSON: the report's metadata (title, date line, version,
-//! build, the caution, the sections' titles), the design as the request
+//! build, the caution, the sections' titles, the study notes), the design as the request
 //! gave it (without the study notes) and the engine's full answer, so that
 //! a program can read every number the document shows.
 
@@ -24,6 +24,8 @@ pub fn json(r: &Report, request: &Value, answer: &Answer) -> String {
             "caution": r.caution,
             "sections": r.sections.iter().map(|s| json!({"id": s.id, "title": s.title})).collect::<Vec<_>>(),
             "command": "tern run design.json",
+            // The study notes as the report shows them (the design leaves them out).
+            "notes": request.get("notes").cloned().unwrap_or(Value::Null),
         },
         "design": design,
         "answer": answer,

@@ -3,7 +3,7 @@
 //! returns `None`) when it is absent, so a stale id costs one blank spot,
 //! never a panic.
 
-use wasm_bindgen::JsCast;
+use wasm_bindgen::{JsCast, JsValue};
 use web_sys::{Document, Element, HtmlCanvasElement, HtmlElement, HtmlInputElement, Window};
 
 pub fn window() -> Option<Window> {
@@ -161,4 +161,31 @@ pub fn text_table(caption: &str, head: &[&str], rows: &[Vec<String>], row_heads:
         }
     }
     Some(table)
+}
+
+/// Save `text` as a file named `name` of type `mime`, through a Blob URL
+/// the browser downloads and the page revokes at once: nothing is sent.
+pub fn download(name: &str, text: &str, mime: &str) -> Result<(), JsValue> {
+    let doc = document().ok_or("no document")?;
+    let options = web_sys::BlobPropertyBag::new();
+    options.set_type(mime);
+    let parts = js_sys::Array::of1(&JsValue::from_str(text));
+    let blob = web_sys::Blob::new_with_str_sequence_and_options(&parts, &options)?;
+    let url = web_sys::Url::create_object_url_with_blob(&blob)?;
+    let a: web_sys::HtmlAnchorElement = doc.create_element("a")?.dyn_into()?;
+    a.set_href(&url);
+    a.set_download(name);
+    let body = doc.body().ok_or("no body")?;
+    body.append_child(&a)?;
+    a.click();
+    body.remove_child(&a)?;
+    web_sys::Url::revoke_object_url(&url)
+}
+
+/// Add or remove a class on the page's body.
+pub fn set_class_on_body(class: &str, on: bool) {
+    if let Some(body) = document().and_then(|d| d.body()) {
+        let list = body.class_list();
+        let _ = if on { list.add_1(class) } else { list.remove_1(class) };
+    }
 }

@@ -9,7 +9,7 @@
 
 use super::dom;
 use crate::engine::design::Family;
-use crate::engine::family::{Input, Kind, REGISTRY};
+use crate::engine::family::{DROPOUT, Input, Kind, REGISTRY};
 use crate::page::form::{self as model, FieldMessage, FormText, Part, Reading};
 use wasm_bindgen::JsValue;
 
@@ -62,7 +62,7 @@ pub fn build() -> Result<(), JsValue> {
         let (parent, before) = match input.part {
             Part::Design => (dom::by_id("design-fields"), None),
             Part::Data => (dom::by_id("w-data"), dom::by_id("m-data")),
-            Part::Limits | Part::Size => continue,
+            Part::Limits | Part::Size | Part::Level => continue,
         };
         let Some(parent) = parent else { continue };
         let wrap = dom::element("div", "").ok_or("no div")?;
@@ -102,6 +102,7 @@ pub fn text() -> FormText {
         alternative: dom::checked_radio("alternative"),
         unit: dom::value("f-unit"),
         values: shown.iter().map(|name| (name.to_string(), dom::value(&input_id(name)))).collect(),
+        texts: model::TEXTS.iter().map(|name| (name.to_string(), dom::value(&input_id(name)))).collect(),
     }
 }
 
@@ -159,14 +160,16 @@ pub fn fill(values: &[(&str, &str)]) {
     dom::check_radio("family", get("family"));
     dom::check_radio("alternative", get("alternative"));
     dom::set_value("f-unit", get("unit").unwrap_or(""));
-    dom::set_value("f-notes", get("notes").unwrap_or(""));
+    for name in model::TEXTS {
+        dom::set_value(&input_id(name), get(name).unwrap_or(""));
+    }
 }
 
 /// Put a design (the engine's field names, as `tern run` reads them) into
 /// the form: the design inputs and `n`; the summary figures, the unit and
 /// the notes stay as they are.
 pub fn set_design(family: Option<&str>, alternative: Option<&str>, values: &[(String, f64)]) {
-    for i in model::inputs().iter().filter(|i| i.part != Part::Data) {
+    for i in model::inputs().iter().filter(|i| !matches!(i.part, Part::Data | Part::Level)) {
         dom::set_value(&input_id(i.name), "");
     }
     dom::check_radio("family", family);
@@ -177,9 +180,17 @@ pub fn set_design(family: Option<&str>, alternative: Option<&str>, values: &[(St
 }
 
 /// The same from the contract's flat JSON object (kept designs, files,
-/// links): only its numbers are design values.
+/// links): its numbers are design values; the unit, the source of the
+/// planning values, the reason for the limits and the dropout it keeps
+/// replace the form's (emptied when the design has none).
 pub fn set_design_json(design: &serde_json::Map<String, serde_json::Value>) {
     let text = |k: &str| design.get(k).and_then(serde_json::Value::as_str);
-    let values: Vec<(String, f64)> = design.iter().filter_map(|(k, v)| v.as_f64().map(|x| (k.clone(), x))).collect();
+    let values: Vec<(String, f64)> =
+        design.iter().filter(|(k, _)| k.as_str() != DROPOUT.key).filter_map(|(k, v)| v.as_f64().map(|x| (k.clone(), x))).collect();
     set_design(text("family"), text("alternative"), &values);
+    dom::set_value("f-unit", text("unit").unwrap_or(""));
+    dom::set_value(&input_id("planning_source"), text("planning_source").unwrap_or(""));
+    dom::set_value(&input_id("limits_reason"), text("limits_reason").unwrap_or(""));
+    let dropout = design.get(DROPOUT.key).and_then(serde_json::Value::as_f64).map_or(String::new(), |q| q.to_string());
+    dom::set_value(&input_id(DROPOUT.input), &dropout);
 }

@@ -14,6 +14,7 @@ mod dom;
 mod form;
 mod offline;
 mod page_canvas;
+mod report;
 mod saved;
 mod view;
 
@@ -78,7 +79,10 @@ fn setup() -> Result<(), JsValue> {
     let window = dom::window().ok_or("no window")?;
     form::build()?;
     let form_el = dom::by_id("tern-form").ok_or("the form #tern-form is missing")?;
-    listen(&form_el, "input", |_| recompute())?;
+    listen(&form_el, "input", |_| {
+        report::form_changed();
+        recompute();
+    })?;
     listen(&form_el, "submit", |e| e.prevent_default())?;
     if let Some(b) = dom::by_id("new-design") {
         listen(&b, "click", |_| {
@@ -124,6 +128,7 @@ fn setup() -> Result<(), JsValue> {
     }
     offline::setup()?;
     saved::setup()?;
+    report::setup()?;
     datafile::setup()?;
     if !saved::open_from_link() {
         demo::load_demo();

@@ -2,18 +2,22 @@
 //! and shared as a link: the design alone, never data.
 //!
 //! A design here is the engine's request without `data` and `curves`: the
-//! fields of [`request::design_fields`] and `n` (a sample size to check),
-//! with the engine's field names, so an exported file runs as it is with
-//! `tern run`. Every design that comes in (a file, a link, a kept entry) is
+//! fields of [`request::design_fields`], `n` (a sample size to check), and
+//! the design's own words ([`context::KEPT`]: the unit, where the planning
+//! values come from, why the limits, the dropout), with the engine's field
+//! names, so an exported file runs as it is with `tern run`. Every design that comes in (a file, a link, a kept entry) is
 //! checked by the engine's own parser first, and a refusal names the field.
 //!
 //! Architecture invariant: what leaves the form here is built by
-//! [`design_only`] from the design fields alone; summary figures, notes,
-//! the unit and any data file never reach local storage, a file or a link.
+//! [`design_only`] from the design fields and those words alone; summary
+//! figures, the study notes and any data file never reach local storage, a
+//! file or a link.
 //! Nothing is written to local storage unless the user asks.
 
 use super::{dom, form, listen, recompute};
 use crate::engine::design::Family;
+use crate::engine::context;
+use crate::engine::family::DROPOUT;
 use crate::engine::request;
 use serde::{Deserialize, Serialize};
 use serde_json::{Map, Value};
@@ -108,7 +112,8 @@ fn design_only() -> Result<Map<String, Value>, String> {
             format!("Complete the design first; still needed: {}.", reading.still_needed.join(", "))
         });
     }
-    let design = request::design_json(&reading.ask.spec, reading.ask.n);
+    let mut design = request::design_json(&reading.ask.spec, reading.ask.n);
+    context::put(&reading.ask.context, &mut design, false);
     check(&design).map_err(|e| format!("This design cannot be kept as it is: {e}."))?;
     Ok(design)
 }
@@ -260,28 +265,12 @@ fn export() {
     };
     let text = serde_json::to_string_pretty(&Value::Object(design)).unwrap_or_default() + "\n";
     let name = file_name();
-    match download(&name, &text) {
+    match dom::download(&name, &text, "application/json") {
         Ok(()) => say(&format!("Exported the design as {name}. It runs as it is with `tern run {name}`.")),
         Err(_) => say("The browser did not let the page save a file."),
     }
 }
 
-fn download(name: &str, text: &str) -> Result<(), JsValue> {
-    let doc = dom::document().ok_or("no document")?;
-    let options = web_sys::BlobPropertyBag::new();
-    options.set_type("application/json");
-    let parts = js_sys::Array::of1(&JsValue::from_str(text));
-    let blob = web_sys::Blob::new_with_str_sequence_and_options(&parts, &options)?;
-    let url = web_sys::Url::create_object_url_with_blob(&blob)?;
-    let a: web_sys::HtmlAnchorElement = doc.create_element("a")?.dyn_into()?;
-    a.set_href(&url);
-    a.set_download(name);
-    let body = doc.body().ok_or("no body")?;
-    body.append_child(&a)?;
-    a.click();
-    body.remove_child(&a)?;
-    web_sys::Url::revoke_object_url(&url)
-}
 
 /// Read the chosen file and put its design into the form.
 fn import() {
@@ -340,7 +329,7 @@ fn share() {
 
 fn to_link(design: &Map<String, Value>) -> String {
     let mut parts = Vec::new();
-    for key in request::design_fields().into_iter().chain(["n"]) {
+    for key in request::design_fields().into_iter().chain(["n"]).chain(context::KEPT) {
         let text = match design.get(key) {
             Some(Value::Number(x)) => x.to_string(),
             Some(Value::String(s)) => s.clone(),
@@ -358,7 +347,7 @@ fn from_link(params: &str) -> Map<String, Value> {
     for pair in params.split('&').filter(|p| !p.is_empty()) {
         let (key, raw) = pair.split_once('=').unwrap_or((pair, ""));
         let text: String = js_sys::decode_uri_component(raw).map(String::from).unwrap_or_else(|_| raw.to_string());
-        let value = if key == "family" || key == "alternative" {
+        let value = if key == "family" || key == "alternative" || (context::KEPT.contains(&key) && key != DROPOUT.key) {
             Value::String(text)
         } else if let Ok(i) = text.parse::<i64>() {
             Value::from(i)

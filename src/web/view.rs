@@ -13,6 +13,7 @@ fn show_size(card: &SizeCard) {
     dom::set_text("size-headline", &card.headline);
     dom::set_text("size-detail", &card.detail);
     dom::set_text("size-conventional", &card.conventional);
+    dom::set_text("size-enrol", &card.enrol);
     dom::set_html("size-notes", &card.notes.iter().map(|n| format!("<li>{}</li>", escape(n))).collect::<String>());
     dom::set_text("design-verdict", &card.verdict);
     match &card.balancing {

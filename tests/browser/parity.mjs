@@ -10,7 +10,7 @@
 // cargo build --release --bin tern; scripts/test-page does both)
 
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { root, dist, artifacts, startServer, stopServer, launch, text, type, act, check, run } from './lib.mjs';
 
@@ -175,11 +175,69 @@ async function main() {
     check('weight out of range: message beside it', (await text(page, '#m-weight')).length > 0, await text(page, '#m-weight'));
     await type(page, '#f-weight', '0.5');
     check('weight fixed: message gone, Youden n back', (await text(page, '#m-weight')) === '' && (await text(page, '#size-headline')).includes(`n = ${cli(d).sample_size.youden.n1}`), await text(page, '#size-headline'));
+    await reportParity(page);
     check('no console errors', errors.length === 0, errors.join(' | '));
   } finally {
     await browser.close();
     await stopServer(child);
   }
+}
+
+// The page's report against `tern report` for the request it was built
+// from: the HTML and Markdown downloads equal the command line's output
+// apart from the date line, and preparing and saving make no request.
+async function reportParity(page) {
+  await act(page, () => page.click('#load-demo'));
+  await page.fill('#f-planning_source', 'Pilot study at the Riverside clinic, 2025 (24 patients)');
+  await page.fill('#f-limits_reason', 'A missed benefit and a false alarm cost about the same.');
+  await type(page, '#f-dropout', '15%');
+  await type(page, '#f-interval_level', '0.95');
+  const requests = [];
+  const onRequest = (r) => requests.push(r.url());
+  page.on('request', onRequest);
+  await page.click('#report-prepare');
+  await page.waitForSelector('#report-title', { timeout: 20000 });
+  const saved = {};
+  for (const [id, format] of [['#report-html', 'html'], ['#report-md', 'md'], ['#report-json', 'json']]) {
+    const [dl] = await Promise.all([page.waitForEvent('download'), page.click(id)]);
+    saved[format] = readFileSync(await dl.path(), 'utf8');
+    check(`report: ${format} file name`, dl.suggestedFilename() === `tern-report-${new Date().toISOString().slice(0, 10)}.${format}`, dl.suggestedFilename());
+  }
+  page.off('request', onRequest);
+  check('report: preparing and saving make no request', requests.length === 0, requests.join(' '));
+  const json = JSON.parse(saved.json);
+  const request = { ...json.design, ...(json.report.notes ? { notes: json.report.notes } : {}) };
+  check('report: the page kept the typed words and level', request.planning_source.startsWith('Pilot study') && request.dropout === 0.15 && request.interval_level === 0.95, JSON.stringify(request));
+  const file = join(artifacts, 'report-request.json');
+  writeFileSync(file, JSON.stringify(request, null, 2));
+  const undated = (t) => t.replace(/ on \d{4}-\d{2}-\d{2}\./g, ' on DATE.');
+  for (const format of ['html', 'md']) {
+    const cliText = execFileSync(bin, ['report', file, '--format', format], { encoding: 'utf8' });
+    const same = undated(cliText) === undated(saved[format]);
+    check(`report: the page's ${format} equals tern report's apart from the date`, same, same ? '' : firstDifference(undated(cliText), undated(saved[format])));
+  }
+  const cliJson = JSON.parse(execFileSync(bin, ['report', file, '--format', 'json'], { encoding: 'utf8' }));
+  // The figures agree to 1e-12 relative, not bit for bit: the page's
+  // WebAssembly uses Rust's own libm and the command line the system's,
+  // which differ in the last bits of exp and log. Every shown figure is
+  // rounded far above that, as the HTML and Markdown equality shows.
+  const diffs = [];
+  const near = (a, b, path) => {
+    if (typeof a === 'number' && typeof b === 'number') {
+      if (!(a === b || Math.abs(a - b) <= 1e-12 * Math.max(Math.abs(a), Math.abs(b)))) diffs.push(`${path}: ${a} vs ${b}`);
+    } else if (a && b && typeof a === 'object' && typeof b === 'object') {
+      for (const k of new Set([...Object.keys(a), ...Object.keys(b)])) near(a[k], b[k], `${path}.${k}`);
+    } else if (a !== b) diffs.push(`${path}: ${JSON.stringify(a)} vs ${JSON.stringify(b)}`);
+  };
+  near(cliJson.answer, json.answer, 'answer');
+  check("report: the page's JSON carries tern report's answer (1e-12 relative)", diffs.length === 0, diffs.slice(0, 5).join('; '));
+  await page.click('#report-close');
+}
+
+function firstDifference(a, b) {
+  let i = 0;
+  while (i < a.length && a[i] === b[i]) i++;
+  return `first difference at ${i}: CLI "${a.slice(i, i + 80)}" vs page "${b.slice(i, i + 80)}"`;
 }
 
 await run('parity', main);
