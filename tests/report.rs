@@ -148,3 +148,34 @@ fn report_arguments_are_checked() {
     assert_eq!((code, stdout.as_str()), (0, ""), "{err}");
     assert!(std::fs::read_to_string(&out).unwrap().contains("</html>"));
 }
+
+/// A report decided from a data file: the file's histogram and quantile
+/// plot join the charts, its notes the decision, the file's name and rows
+/// stay out, and the design block (summary figures as `data`, no role
+/// fields) reproduces the decision with `tern run` and no file.
+#[test]
+fn report_from_a_data_file_holds_summaries_only() {
+    let plan = std::env::temp_dir().join(format!("tern-report-plan-{}.json", std::process::id()));
+    std::fs::write(
+        &plan,
+        r#"{"family": "two_means_pooled", "alternative": "less", "theta0": 0, "theta1": -3, "sigma": 5, "alpha_max": 0.05,
+            "beta_max": 0.2, "value": "recovery_days", "group": "protocol", "level1": "early loading", "level2": "standard"}"#,
+    )
+    .unwrap();
+    let file = concat!(env!("CARGO_MANIFEST_DIR"), "/examples/clinic-recovery-data.csv");
+    let (code, html, err) = tern(&["report", plan.to_str().unwrap(), "--data", file]);
+    assert_eq!(code, 0, "{err}");
+    assert_eq!(svgs(&html).len(), 6, "four design charts and the file's two");
+    assert!(html.contains("report-chart-histogram") && html.contains("report-chart-quantile"));
+    assert!(!html.contains("clinic-recovery-data"), "the file's name stays out");
+    let (_, md, _) = tern(&["report", plan.to_str().unwrap(), "--data", file, "--format", "md"]);
+    let block = md.split("```json\n").nth(1).and_then(|b| b.split("\n```").next()).expect("design block");
+    let design: serde_json::Value = serde_json::from_str(block).unwrap();
+    assert!(design.get("value").is_none() && design.get("group").is_none(), "no role fields: {design}");
+    let again = std::env::temp_dir().join(format!("tern-report-again-{}.json", std::process::id()));
+    std::fs::write(&again, block).unwrap();
+    let (_, from_block, _) = tern(&["run", again.to_str().unwrap()]);
+    let (_, from_file, _) = tern(&["run", plan.to_str().unwrap(), "--data", file]);
+    let (a, b): (serde_json::Value, serde_json::Value) = (serde_json::from_str(&from_block).unwrap(), serde_json::from_str(&from_file).unwrap());
+    assert_eq!(a["decision"], b["decision"], "the design block reproduces the decision without the file");
+}

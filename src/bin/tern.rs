@@ -19,11 +19,13 @@ usage:
                       (value, first, second, group, level1, level2, outcome,
                       success) and may set exclude_rows, delimiter, decimal,
                       header, missing and sheet
-  tern report FILE [--format html|md|json] [--out PATH]
+  tern report FILE [--data DATAFILE] [--format html|md|json] [--out PATH]
                       write the report of the design in FILE (or standard
                       input for -): a self-contained HTML file (the default;
                       print it to PDF from a browser), CommonMark, or JSON;
-                      to PATH, or to standard output
+                      to PATH, or to standard output; with --data, decided
+                      from DATAFILE as tern run does, with its histogram and
+                      quantile plot (the report holds its summaries only)
   tern help           show this text
 
 The input fields and two worked examples are in the README.";
@@ -142,12 +144,13 @@ enum Format {
 /// `report`'s arguments.
 struct ReportArgs<'a> {
     design: Option<&'a str>,
+    data: Option<&'a str>,
     format: Format,
     out: Option<&'a str>,
 }
 
 fn report_args(args: &[String]) -> Result<ReportArgs<'_>, String> {
-    let mut a = ReportArgs { design: None, format: Format::Html, out: None };
+    let mut a = ReportArgs { design: None, data: None, format: Format::Html, out: None };
     let (mut format_seen, mut it) = (false, args.iter());
     while let Some(arg) = it.next() {
         match arg.as_str() {
@@ -164,6 +167,11 @@ fn report_args(args: &[String]) -> Result<ReportArgs<'_>, String> {
                     other => return Err(format!("--format is \"{other}\", but must be html, md or json")),
                 };
             }
+            "--data" => match it.next() {
+                Some(f) if a.data.is_none() => a.data = Some(f.as_str()),
+                Some(_) => return Err("--data is given twice".into()),
+                None => return Err("--data needs a file name".into()),
+            },
             "--out" => match it.next() {
                 Some(p) if a.out.is_none() => a.out = Some(p.as_str()),
                 Some(_) => return Err("--out is given twice".into()),
@@ -202,7 +210,29 @@ fn report(a: ReportArgs<'_>) -> ExitCode {
             return ExitCode::from(1);
         }
     };
-    let prepared = match tern::report::prepare(&text, tern::report::Stamp::today(today())) {
+    // With a data file: the request with the file's summary figures as
+    // its data, and the file's charts and notes.
+    let (text, part) = match a.data {
+        None => (text, None),
+        Some(file) => {
+            let bytes = match std::fs::read(file) {
+                Ok(b) => b,
+                Err(e) => {
+                    eprintln!("tern: cannot read {file}: {e}");
+                    return ExitCode::from(1);
+                }
+            };
+            let name = std::path::Path::new(file).file_name().map_or(file.to_string(), |n| n.to_string_lossy().into_owned());
+            match tern::report::data_part_from_file(&text, &bytes, &name) {
+                Ok(x) => x,
+                Err(e) => {
+                    eprintln!("tern: {e}");
+                    return ExitCode::from(2);
+                }
+            }
+        }
+    };
+    let prepared = match tern::report::prepare(&text, tern::report::Stamp::today(today()), part.as_ref()) {
         Ok(p) => p,
         Err(e) => {
             eprintln!("tern: {e}");

@@ -12,7 +12,7 @@
 use super::family::Role;
 use super::request::{self, Answer, RequestError};
 use super::table::roles::{self, Choice};
-use super::table::{DecimalMark, GroupStats, ReadOptions, Table, read_table, summarise};
+use super::table::{DataSummary, DecimalMark, GroupStats, ReadOptions, Table, group_values, read_table, summarise};
 use serde::Serialize;
 use serde_json::{Map, Value};
 
@@ -120,17 +120,33 @@ fn take_fields(obj: &mut Map<String, Value>) -> Result<(Choice, Vec<usize>, Read
     Ok((choice, exclude, opts))
 }
 
-/// Answer a design (JSON text) from a data file's bytes: read the file,
-/// map its columns by the design's role fields (first choices for the
-/// roles it leaves out, reported as such), summarise, decide.
-pub fn answer_from_file(text: &str, bytes: &[u8], name: &str) -> Result<FileAnswer, RequestError> {
+/// A design read together with its data file: the request without the
+/// data-file fields and with the file's summary as its `data`, and what
+/// the reading found.
+pub struct FromFile {
+    /// The design's object, role and read fields taken out, the file's
+    /// summary figures put in as `data`: what `tern run` reproduces every
+    /// number from, without the file.
+    pub request: Map<String, Value>,
+    pub table: Table,
+    pub mapping: Vec<RoleUsed>,
+    pub summary: DataSummary,
+    /// Each group's values (empty for binary outcomes, which have no
+    /// histogram), in the summary's group order.
+    pub values: Vec<Vec<f64>>,
+}
+
+/// Read a design (JSON text) and its data file's bytes: read the file, map
+/// its columns by the design's role fields (first choices for the roles
+/// it leaves out, reported as such) and summarise.
+pub fn read_with_file(text: &str, bytes: &[u8], name: &str) -> Result<FromFile, RequestError> {
     let value: Value = serde_json::from_str(text).map_err(|e| RequestError::NotJson(e.to_string()))?;
     let Value::Object(mut obj) = value else { return Err(RequestError::NotObject) };
     if obj.get("data").is_some_and(|d| !d.is_null()) {
         return Err(bad("data", "summary figures".into(), "absent when a data file is given: the file's figures decide"));
     }
     let (picks, exclude, opts) = take_fields(&mut obj)?;
-    let mut req = request::parse_value(&Value::Object(obj))?;
+    let req = request::parse_value(&Value::Object(obj.clone()))?;
     let file_error = |message: String| RequestError::DataFile { file: name.to_string(), message };
     let table = read_table(bytes, Some(name), &opts).map_err(|e| file_error(e.to_string()))?;
     let shape = req.design.family.entry().shape;
@@ -168,23 +184,34 @@ pub fn answer_from_file(text: &str, bytes: &[u8], name: &str) -> Result<FileAnsw
     }
     let mapping = roles::to_mapping(&table, shape, &choice).map_err(|q| file_error(format!("still to choose: {q}")))?;
     let summary = summarise(&table, &mapping, &exclude).map_err(|e| file_error(e.to_string()))?;
-    req.data = Some(summary.summary);
-    let answer = request::answer(&req)?;
+    let values = if shape.binary() { Vec::new() } else { group_values(&table, &mapping, &exclude).map_err(|e| file_error(e.to_string()))? };
+    let data: Map<String, Value> = summary.summary.fields().into_iter().map(|(k, v)| (k.to_string(), request::json_number(v))).collect();
+    obj.insert("data".into(), Value::Object(data));
     let used = shape
         .roles()
         .iter()
         .map(|&r| RoleUsed { role: r.key(), value: choice.get(r).unwrap_or_default().to_string(), chosen: picks.get(r).is_some() })
         .collect();
+    Ok(FromFile { request: obj, table, mapping: used, summary, values })
+}
+
+/// Answer a design (JSON text) from a data file's bytes: read, map and
+/// summarise ([`read_with_file`]), then decide.
+pub fn answer_from_file(text: &str, bytes: &[u8], name: &str) -> Result<FileAnswer, RequestError> {
+    let f = read_with_file(text, bytes, name)?;
+    let mut req = request::parse_value(&Value::Object(f.request))?;
+    req.data = Some(f.summary.summary);
+    let answer = request::answer(&req)?;
     Ok(FileAnswer {
         answer,
         data_file: DataFileReport {
             file: name.to_string(),
-            table,
-            mapping: used,
-            excluded: summary.excluded,
-            dropped_pairs: summary.dropped_pairs,
-            groups: summary.groups,
-            notes: summary.notes,
+            table: f.table,
+            mapping: f.mapping,
+            excluded: f.summary.excluded,
+            dropped_pairs: f.summary.dropped_pairs,
+            groups: f.summary.groups,
+            notes: f.summary.notes,
         },
     })
 }

@@ -9,7 +9,9 @@ use crate::engine::threshold::Alternative;
 use crate::engine::evaluate::Evaluation;
 use crate::engine::family::{self, Field};
 use crate::engine::request::{self, Answer, Request, RequestError};
-use crate::page::charts::svg::{SvgError, design_charts};
+use crate::page::charts::prep::DataViews;
+use crate::page::charts::svg::{SvgError, data_charts, design_charts};
+use crate::page::charts::{histogram, quantile};
 use crate::page::charts::table::design_numbers;
 use crate::page::charts::{prep, prob, short};
 use crate::page::results::{decide_card, rule_text, size_card, sizes, unit_of};
@@ -78,13 +80,38 @@ impl Prepared {
     }
 }
 
-/// Parse a request document and build its report (charts included).
-pub fn prepare(text: &str, stamp: Stamp) -> Result<Prepared, ReportError> {
+/// What a data file adds to a report when its figures decide: the views
+/// of its histogram and quantile plot (none for a yes/no outcome) and the
+/// notes on the data. Summaries only: no row of the file.
+#[derive(Debug, Clone)]
+pub struct DataPart {
+    pub views: Option<DataViews>,
+    pub notes: Vec<String>,
+}
+
+/// A design read with its data file (`engine::data_file::read_with_file`):
+/// the request text with the file's summary figures as `data` (the role
+/// and read fields taken out, so `tern run` reproduces it without the
+/// file), and the file's part of the report.
+pub fn data_part_from_file(text: &str, bytes: &[u8], name: &str) -> Result<(String, Option<DataPart>), ReportError> {
+    let f = crate::engine::data_file::read_with_file(text, bytes, name)?;
+    let unit = f.request.get("unit").and_then(Value::as_str).unwrap_or("").to_string();
+    let paired = f.request.get("family").and_then(Value::as_str).and_then(crate::engine::design::Family::from_id).is_some_and(|fam| {
+        fam.entry().shape == crate::engine::family::Shape::Paired
+    });
+    let views = (!f.values.is_empty()).then(|| prep::data_views(&f.summary, &f.values, paired, &unit));
+    let text = serde_json::to_string_pretty(&Value::Object(f.request)).unwrap_or_default();
+    Ok((text, Some(DataPart { views, notes: f.summary.notes })))
+}
+
+/// Parse a request document and build its report (charts included), with
+/// a data file's part when its figures are the request's `data`.
+pub fn prepare(text: &str, stamp: Stamp, data: Option<&DataPart>) -> Result<Prepared, ReportError> {
     let request: Value = serde_json::from_str(text).map_err(|e| RequestError::NotJson(e.to_string()))?;
     let mut req = request::parse_value(&request)?;
     req.curves = true;
     let answer = request::answer(&req)?;
-    let report = build(&request, &req, &answer, stamp)?;
+    let report = build(&request, &req, &answer, stamp, data)?;
     Ok(Prepared { report, request, answer })
 }
 
@@ -99,7 +126,7 @@ pub fn reproducible_json(value: &Value) -> String {
 
 /// Build the report of a parsed request and its answer. `value` is the
 /// request as JSON (for the reproducibility block).
-pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp) -> Result<Report, ReportError> {
+pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp, data: Option<&DataPart>) -> Result<Report, ReportError> {
     let design = &ans.design;
     let entry = design.family.entry();
     let unit = req.context.unit.as_str();
@@ -112,7 +139,11 @@ pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp) -> Result
     sections.push(design_section(value, req, ans));
     sections.push(threshold_section(ans, at, unit));
     sections.push(size_section(req, ans, unit));
-    if let Some(s) = decision_section(req, ans, unit) {
+    if let Some(mut s) = decision_section(req, ans, unit) {
+        if let Some(d) = data.filter(|d| !d.notes.is_empty()) {
+            s.blocks.push(Block::Paragraph(vec![text("Notes on the data (advice; the test is not changed by them):")]));
+            s.blocks.push(Block::List(d.notes.clone()));
+        }
         sections.push(s);
     }
     if let Some(curves) = &ans.curves {
@@ -129,6 +160,14 @@ pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp) -> Result
         for ((id, svg), (_, n)) in design_charts(&views)?.into_iter().zip(numbers) {
             let title = titles.iter().find(|t| t.0 == id).map_or(id, |t| t.1).to_string();
             blocks.push(Block::Figure { id, title, svg, numbers: Table { caption: n.caption, head: n.head, rows: n.rows } });
+        }
+        if let Some(views) = data.and_then(|d| d.views.as_ref()) {
+            let numbers = [histogram::numbers(&views.histogram), quantile::numbers(&views.quantile)];
+            let titles = ["The data: histogram of each group", "The data: normal quantile plot"];
+            for (((id, svg), (caption, head, rows)), title) in data_charts(views)?.into_iter().zip(numbers).zip(titles) {
+                let numbers = Table { caption, head: head.into_iter().map(String::from).collect(), rows };
+                blocks.push(Block::Figure { id, title: title.to_string(), svg, numbers });
+            }
         }
         sections.push(Section { id: "charts", title: "Charts".into(), blocks });
     }

@@ -70,6 +70,19 @@ fn with<R>(f: impl FnOnce(&mut DataState) -> R) -> R {
     DATA.with(|s| f(&mut s.borrow_mut()))
 }
 
+/// The data file's part of a report, when its figures are the ones that
+/// decide: every summary figure of the family still holds the file's
+/// value (a figure typed over makes the decision the user's own, and the
+/// file's charts would no longer describe it).
+pub fn report_part() -> Option<crate::report::DataPart> {
+    with(|s| {
+        let (family, summary) = (s.family?, s.summary.clone()?);
+        let needed = fill::fields(family, &summary.summary).len();
+        (needed > 0 && s.fill.shown() == needed)
+            .then(|| crate::report::DataPart { views: s.charts.as_deref().cloned(), notes: summary.notes.clone() })
+    })
+}
+
 /// Wire the data-file controls. Their input events stay here: they must not
 /// recompute the design on every keystroke of a pasted table.
 pub fn setup() -> Result<(), JsValue> {
