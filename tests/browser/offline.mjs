@@ -29,7 +29,24 @@ import { headersFor } from '../../scripts/page-policy.mjs';
 
 const single = join(root, 'dist-single', 'tern.html');
 const CHARTS = ['chart-sampling', 'chart-by-n', 'chart-tradeoff', 'chart-total'];
-const DESIGN_KEYS = new Set(['family', 'alternative', 'theta0', 'theta1', 'sigma', 'sigma1', 'sigma2', 'd', 'p1', 'p2', 'ratio', 'alpha_max', 'beta_max', 'weight', 'n']);
+const DESIGN_KEYS = new Set(['family', 'alternative', 'theta0', 'theta1', 'sigma', 'sigma1', 'sigma2', 'd', 'p1', 'p2', 'ratio', 'alpha_max', 'beta_max', 'weight', 'n', 'unit', 'planning_source', 'limits_reason', 'dropout']);
+
+// Prepare the report, print it (the print dialog of a headless browser
+// returns at once; page.pdf prints as "save as PDF" does) and save it in
+// every format: the caller checks that none of it made a request.
+async function usesReport(page, label) {
+  await page.click('#report-prepare');
+  await page.waitForSelector('#report-title', { timeout: 20000 });
+  check(`${label}: the report is prepared`, /Tern report: two means/.test(await text(page, '#report-title')), await text(page, '#report-title'));
+  await page.pdf({ format: 'A4' });
+  for (const id of ['#report-html', '#report-md', '#report-json']) {
+    const [dl] = await Promise.all([page.waitForEvent('download'), page.click(id)]);
+    await dl.path();
+  }
+  await page.click('#report-print');
+  await page.waitForTimeout(300);
+  await page.click('#report-close');
+}
 
 // The spreadsheet reader is the page's second WebAssembly module: choose an
 // .xlsx and check that it is read (both sheets offered), in each edition.
@@ -182,6 +199,7 @@ async function servedEdition(browser) {
     const [download] = await Promise.all([page.waitForEvent('download'), page.click('#keep-export')]);
     await download.path();
     await page.click('#keep-share');
+    await usesReport(page, 'after load');
     await page.waitForTimeout(800);
     check('after load: zero requests reached the host', host.log.length === hostBefore, host.log.slice(hostBefore).join(', '));
     const after = seen.slice(seenBefore).filter((u) => !u.startsWith('blob:'));
@@ -353,7 +371,7 @@ async function policy(browser, foreignHost) {
 
 async function oneFile(browser, foreignHost) {
   if (!existsSync(single)) throw new Error('dist-single/tern.html is missing: run scripts/build-single first');
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, acceptDownloads: true });
   const seen = record(context);
   const page = await context.newPage();
   const errors = [];
@@ -372,8 +390,9 @@ async function oneFile(browser, foreignHost) {
     await page.click('#keep-save');
     await page.click('#keep-share');
     check('one file: a design is kept', (await page.locator('#keep-list li').count()) >= 1);
+    await usesReport(page, 'one file');
     await page.waitForTimeout(300);
-    const other = seen.filter((u) => u !== url && !u.startsWith('data:'));
+    const other = seen.filter((u) => u !== url && !u.startsWith('data:') && !u.startsWith('blob:'));
     check('one file: no request but the file itself', other.length === 0, other.join(', '));
     check('one file: no console errors', errors.length === 0, errors.join(' | '));
     check('one file: the page itself breaks no rule of its policy', (await violations(page)).length === 0, (await violations(page)).join(' | '));
@@ -453,7 +472,9 @@ async function designs(browser) {
     const link = await page.inputValue('#share-link');
     const fragment = decodeURIComponent(link.split('#')[1] || '');
     check('share: the link carries the design in the fragment', fragment.startsWith('design:') && fragment.includes('alpha_max=0.1'), link);
-    check('share: no summary figures or notes in the link', !/data|mean1|39\.4|56|Riverside|days/.test(fragment), fragment);
+    // The unit travels with the design; the summary figures and the study
+    // notes (the demo's mention the Riverside clinic) never do.
+    check('share: no summary figures or notes in the link', !/data|mean1|39\.4|56|Riverside|notes/.test(fragment) && fragment.includes('unit=days'), fragment);
     check('share: the page says what the link carries', /design only/.test(await text(page, '#keep-msg')) && /not send/.test(await text(page, '#share-box')));
     const other = await context.newPage();
     await other.goto(link);
