@@ -237,6 +237,18 @@ fn table() -> Vec<Case> {
             expect: &["beta_max is 0.7"],
             exact: Some("beta_max is 0.7, but must be between 0 and 0.5 (exclusive)"),
         },
+        // Values so far apart that the sampling distribution overflows:
+        // named by the most extreme one, in short notation.
+        case(
+            "json sigma1 1e300 against sigma2 1 (Welch df not a number)",
+            Input::Json(r#"{"family": "two_means_welch", "alternative": "greater", "theta0": 0, "theta1": 1, "sigma1": 1e300, "sigma2": 1, "alpha_max": 0.05, "beta_max": 0.2}"#),
+            &["sigma1 is 1e300", "sigma2 = 1", "unit"],
+        ),
+        case(
+            "json sigma 5e-324 under theta1 1.8e308 (noncentrality infinite)",
+            Input::Json(r#"{"family": "mean_t", "alternative": "greater", "theta0": 0, "theta1": 1.7976931348623157e308, "sigma": 5e-324, "alpha_max": 0.05, "beta_max": 0.2}"#),
+            &["sigma is 5e-324", "theta1 = 1.7976931348623157e308"],
+        ),
         case("json sigma negative", Input::Json(r#"{"family": "mean_t", "alternative": "greater", "theta0": 0, "theta1": 1, "sigma": -1, "alpha_max": 0.05, "beta_max": 0.2}"#), &["sigma is -1", "> 0"]),
         case("json sigma 0", Input::Json(r#"{"family": "mean_z", "alternative": "less", "theta0": 0, "theta1": -1, "sigma": 0, "alpha_max": 0.05, "beta_max": 0.2}"#), &["sigma is 0", "> 0"]),
         case("json theta1 = theta0", Input::Json(r#"{"family": "mean_t", "alternative": "two_sided", "theta0": 2, "theta1": 2, "sigma": 1, "alpha_max": 0.05, "beta_max": 0.2}"#), &["theta1 is 2", "different from theta0"]),

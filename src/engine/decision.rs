@@ -123,7 +123,7 @@ pub struct Decision {
 
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum DecisionError {
-    #[error("{field} is {value}, but must be {rule}")]
+    #[error("{field} is {value_shown}, but must be {rule}", value_shown = crate::engine::shown::Num(*value))]
     Value { field: &'static str, value: f64, rule: &'static str },
     #[error("{field} is missing: {hint}")]
     Missing { field: &'static str, hint: &'static str },

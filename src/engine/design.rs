@@ -119,11 +119,11 @@ impl DesignSpec {
 pub enum DesignError {
     #[error("{field} is missing: {hint}")]
     Missing { field: &'static str, hint: String },
-    #[error("{field} is {value}, but must be {rule}")]
+    #[error("{field} is {value_shown}, but must be {rule}", value_shown = crate::engine::shown::Num(*value))]
     OutOfRange { field: &'static str, value: f64, rule: &'static str },
     #[error("{field} does not apply to the family {family}: {hint}")]
     NotApplicable { field: &'static str, family: &'static str, hint: String },
-    #[error("{field} is {value}, but with the alternative \"{alternative}\" it must be {rule}")]
+    #[error("{field} is {value_shown}, but with the alternative \"{alternative}\" it must be {rule}", value_shown = crate::engine::shown::Num(*value))]
     Direction { field: &'static str, value: f64, alternative: &'static str, rule: String },
     #[error("give either d or theta1 with sigma, not both")]
     EffectTwice,

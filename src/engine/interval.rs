@@ -54,13 +54,14 @@ pub struct EffectSize {
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum IntervalError {
     /// A confidence level outside (0, 1).
-    #[error("{field} is {value}, but must be {rule}", field = INTERVAL_LEVEL.key, rule = Check::OpenUnit.rule())]
+    #[error("{field} is {value_shown}, but must be {rule}", field = INTERVAL_LEVEL.key, rule = Check::OpenUnit.rule(), value_shown = crate::engine::shown::Num(*value))]
     Level { value: f64 },
     /// α_max gives no default level: 1 − 2·α_max ≤ 0 (one-sided) or
     /// 1 − α_max ≤ 0 (two-sided).
     #[error(
-        "alpha_max is {value}, which gives no confidence level (the {which} interval's level {formula} must be above 0): \
-         give interval_level between 0 and 1 instead"
+        "alpha_max is {value_shown}, which gives no confidence level (the {which} interval's level {formula} must be above 0): \
+         give interval_level between 0 and 1 instead",
+        value_shown = crate::engine::shown::Num(*value)
     )]
     NoDefaultLevel { value: f64, which: &'static str, formula: &'static str },
     /// The summary data break the decision's rules (field, value, rule).
@@ -70,7 +71,7 @@ pub enum IntervalError {
     #[error("{0}")]
     Undefined(&'static str),
     /// The figures are so large or small that a bound is not a finite number.
-    #[error("the {what} is {value}, not a finite number: the summary figures are too large (or too small) to combine; rescale the data's unit")]
+    #[error("the {what} is {value_shown}, not a finite number: the summary figures are too large (or too small) to combine; rescale the data's unit", value_shown = crate::engine::shown::Num(*value))]
     NotFinite { what: &'static str, value: f64 },
     /// A quantile could not be computed (a parameter out of its range).
     #[error("the interval's quantile could not be computed: {0}")]

@@ -19,6 +19,7 @@ pub mod interval;
 pub mod curves;
 pub mod inverse;
 pub mod context;
+pub mod shown;
 pub mod request;
 pub mod data_file;
 pub mod table;

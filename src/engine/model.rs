@@ -152,10 +152,19 @@ pub struct Model {
 
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum ModelError {
-    #[error("{field} is {value}, but must be a whole number from {min} to {max}")]
+    #[error("{field} is {value_shown}, but must be a whole number from {min} to {max}", value_shown = crate::engine::shown::Num(*value))]
     SampleSize { field: &'static str, value: f64, min: u64, max: u64 },
     #[error("the sampling distribution cannot be formed: {0}")]
     Dist(#[from] DistError),
+    /// The design's values lie so far apart that the arithmetic of its
+    /// sampling distributions overflows or underflows (a noncentrality of
+    /// 1e308, a Welch df of NaN): named by its most extreme value.
+    #[error(
+        "{field} is {value_shown}: with the design's other values ({others}) the sampling distribution cannot be formed ({detail}); \
+         state the values in a unit where they lie between about 1e-100 and 1e100",
+        value_shown = crate::engine::shown::Num(*value)
+    )]
+    Scale { field: &'static str, value: f64, others: String, detail: String },
 }
 
 /// Welch–Satterthwaite degrees of freedom for variances of the means v1, v2.
@@ -173,6 +182,28 @@ impl Design {
     /// The model at the given group sizes, with observed SDs where the
     /// statistic uses them.
     pub fn model_observed(&self, n1: u64, n2: Option<u64>, obs: &Observed) -> Result<Model, ModelError> {
+        self.model_unscaled(n1, n2, obs).map_err(|e| match e {
+            ModelError::Dist(d) => self.scale_error(d),
+            other => other,
+        })
+    }
+
+    /// A distribution the design's values cannot form, as the user's
+    /// field with the most extreme value (farthest from 1 on a log scale).
+    fn scale_error(&self, d: DistError) -> ModelError {
+        let values: Vec<(&'static str, f64)> = match self.effect {
+            Effect::Mean { theta0, theta1, sigma } => vec![("theta0", theta0), ("theta1", theta1), ("sigma", sigma)],
+            Effect::Welch { theta0, theta1, sigma1, sigma2 } => vec![("theta0", theta0), ("theta1", theta1), ("sigma1", sigma1), ("sigma2", sigma2)],
+            Effect::Proportion { p0, p1 } => vec![("theta0", p0), ("theta1", p1)],
+            Effect::TwoProportions { p1, p2 } => vec![("p1", p1), ("p2", p2)],
+        };
+        let extremity = |v: f64| if v == 0.0 || !v.is_finite() { 0.0 } else { v.abs().ln().abs() };
+        let (field, value) = values.iter().copied().fold(values[0], |a, b| if extremity(b.1) > extremity(a.1) { b } else { a });
+        let others = values.iter().filter(|(k, _)| *k != field).map(|(k, v)| format!("{k} = {}", crate::engine::shown::Num(*v))).collect::<Vec<_>>().join(", ");
+        ModelError::Scale { field, value, others, detail: d.to_string() }
+    }
+
+    fn model_unscaled(&self, n1: u64, n2: Option<u64>, obs: &Observed) -> Result<Model, ModelError> {
         let min = self.family.n_min();
         let field = if self.family.two_groups() { "n1" } else { "n" };
         if n1 < min || n1 > N_MAX {

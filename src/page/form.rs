@@ -383,6 +383,9 @@ fn evaluate_message(family: Option<Family>, err: &EvaluateError, fallback: &str)
             text: format!("{} is not possible here: it must be a whole number from {min} to {max}.", show(*value)),
             invalid: true,
         },
+        EvaluateError::Model(ModelError::Scale { field, .. }) => {
+            FieldMessage { field: input_for(family, field), text: format!("{}.", capital(&err.to_string())), invalid: true }
+        }
         other => FieldMessage { field: fallback.into(), text: format!("This could not be computed: {other}."), invalid: true },
     }
 }

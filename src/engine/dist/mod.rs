@@ -28,7 +28,7 @@ pub use student_t::StudentT;
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum DistError {
     /// A parameter broke its rule, e.g. `sd is -1, but must be > 0`.
-    #[error("{name} is {value}, but must be {rule}")]
+    #[error("{name} is {value_shown}, but must be {rule}", value_shown = crate::engine::shown::Num(*value))]
     Parameter { name: &'static str, value: f64, rule: &'static str },
     /// A probability passed to a quantile was outside [0, 1] or NaN.
     #[error("probability is {0}, but must be between 0 and 1")]
