@@ -374,7 +374,23 @@ fn decision_section(req: &Request, ans: &Answer, unit: &str) -> Option<Section> 
         limit(ans.design.alpha_max),
         if d.conventional.rejects_at_alpha_max { "rejects" } else { "does not reject" }
     )));
-    let facts = card.rows.into_iter().map(|(k, v)| (k, vec![text(v)])).collect();
+    let mut facts: Vec<(String, Vec<Inline>)> = card.rows.into_iter().map(|(k, v)| (k, vec![text(v)])).collect();
+    if let Some(ci) = &d.interval {
+        let decimals = apa::decimals_for(ci.low).max(apa::decimals_for(ci.high));
+        facts.push((
+            "confidence interval of the estimate".into(),
+            vec![text(format!("{}{u}; {}", apa::interval(ci.level, ci.low, ci.high, decimals), ci.method))],
+        ));
+    }
+    if let Some(e) = &d.effect_size {
+        facts.push((
+            format!("standardised effect size, {}", e.name),
+            vec![apa::symbol(e.symbol), text(format!(" = {}; {}", apa::fixed(e.value, 2), e.note))],
+        ));
+    }
+    for why in &d.omitted {
+        facts.push(("not reported".into(), vec![text(why.clone())]));
+    }
     let mut blocks = vec![Block::Paragraph(p), Block::Facts(facts)];
     if let Some(s) = &req.data {
         blocks.push(Block::Table(summary_rows(s)));
