@@ -162,3 +162,20 @@ pub fn text_table(caption: &str, head: &[&str], rows: &[Vec<String>], row_heads:
     }
     Some(table)
 }
+
+/// Hand `blob` to the browser's download as `name`: through a Blob URL on
+/// a link that is clicked and removed at once, the URL revoked right after
+/// the click (the browser has taken the file by then). Nothing leaves the
+/// machine and no data: URL is made.
+pub fn download_blob(name: &str, blob: &web_sys::Blob) -> Result<(), wasm_bindgen::JsValue> {
+    let doc = document().ok_or("no document")?;
+    let url = web_sys::Url::create_object_url_with_blob(blob)?;
+    let a: web_sys::HtmlAnchorElement = doc.create_element("a")?.dyn_into()?;
+    a.set_href(&url);
+    a.set_download(name);
+    let body = doc.body().ok_or("no body")?;
+    body.append_child(&a)?;
+    a.click();
+    body.remove_child(&a)?;
+    web_sys::Url::revoke_object_url(&url)
+}

@@ -267,20 +267,11 @@ fn export() {
 }
 
 fn download(name: &str, text: &str) -> Result<(), JsValue> {
-    let doc = dom::document().ok_or("no document")?;
     let options = web_sys::BlobPropertyBag::new();
     options.set_type("application/json");
     let parts = js_sys::Array::of1(&JsValue::from_str(text));
     let blob = web_sys::Blob::new_with_str_sequence_and_options(&parts, &options)?;
-    let url = web_sys::Url::create_object_url_with_blob(&blob)?;
-    let a: web_sys::HtmlAnchorElement = doc.create_element("a")?.dyn_into()?;
-    a.set_href(&url);
-    a.set_download(name);
-    let body = doc.body().ok_or("no body")?;
-    body.append_child(&a)?;
-    a.click();
-    body.remove_child(&a)?;
-    web_sys::Url::revoke_object_url(&url)
+    dom::download_blob(name, &blob)
 }
 
 /// Read the chosen file and put its design into the form.
