@@ -85,6 +85,11 @@ fn report_numbers_are_the_engines() {
     assert!(md.contains("*t*(110) = −2.36, *p* = .010"), "{md}");
     assert!(md.contains("(source: pilot study at the Harbour Street clinic, 2025 (24 patients))"));
     assert!(md.contains("Why these limits: a missed benefit and a false alarm cost about the same"));
+    // The 80% interval (one-sided test, α limit .10: 1 − 2·α) and Cohen's d,
+    // by hand with SciPy 1.17.1: s_pooled = √((55·6.3² + 55·5.8²)/110),
+    // t.ppf(0.9, 110) = 1.28930; bounds −4.17536 and −1.22464, d = −0.44590.
+    assert!(md.contains(r"80% CI \[−4.18, −1.22\] days"), "the interval (CommonMark escapes the brackets)");
+    assert!(md.contains("*d* = −0.45"), "Cohen's d");
     let json: serde_json::Value = serde_json::from_str(&report("json")).unwrap();
     assert_eq!(json["answer"]["at_n"], answer["at_n"], "the JSON report carries the engine's answer");
     assert_eq!(json["answer"]["sample_size"], answer["sample_size"]);

@@ -1,14 +1,17 @@
 //! Canvas plumbing: size each canvas for its CSS box and the screen's
 //! devicePixelRatio (crisp on high-DPI screens), draw a chart on it with
 //! plotters-canvas (through `PageCanvas`), and put the same numbers in the
-//! chart's table.
+//! chart's table; and each chart's "Save as SVG" and "Save as PNG".
 
-use crate::page::charts::prep::Views;
-use crate::page::charts::{self, DrawResult, Look, by_n, prob, sampling, short, table, total_error, tradeoff};
+use crate::page::charts::prep::{DataViews, Views};
+use crate::page::charts::{self, DrawResult, Look, by_n, histogram, prob, quantile, sampling, short, svg, table, total_error, tradeoff};
 use super::dom;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use super::page_canvas::PageCanvas;
+use std::cell::RefCell;
+use wasm_bindgen::JsCast;
+use wasm_bindgen::prelude::*;
 
 const CHARTS: [&str; 4] = ["chart-sampling", "chart-by-n", "chart-tradeoff", "chart-total"];
 
@@ -71,10 +74,12 @@ pub fn draw_all(v: &Views) {
         paint_measured(id, m, draw);
         dom::set_attr(id, "data-draw-ms", Some(&format!("{:.2}", dom::now_ms() - t0)));
     };
-    timed("chart-sampling", s, &|a, l| sampling::draw(a, &v.sampling, l));
-    timed("chart-by-n", n, &|a, l| by_n::draw(a, &v.by_n, l));
-    timed("chart-tradeoff", t, &|a, l| tradeoff::draw(a, &v.tradeoff, l));
-    timed("chart-total", e, &|a, l| total_error::draw(a, &v.total, l));
+    for (id, m) in CHARTS.into_iter().zip([s, n, t, e]) {
+        if let Some(draw) = design_painter(v, id) {
+            timed(id, m, &draw);
+        }
+    }
+    keep(|k| k.design = Some(v.clone()));
     fill_tables(Some(v), false);
     let s = &v.sampling;
     let cuts = s.cut_text.join(" and ");
@@ -127,6 +132,7 @@ pub fn clear_all() {
     }
     fill_tables(None, false);
     dom::set_text("cap-n", "—");
+    keep(|k| k.design = None);
 }
 
 const TABLES: [&str; 4] = ["table-sampling", "table-by-n", "table-tradeoff", "table-total"];
@@ -159,4 +165,155 @@ pub fn fill_tables(v: Option<&Views>, opened: bool) {
         el.set_inner_html(&html);
         let _ = el.remove_attribute("data-stale");
     }
+}
+
+/// A chart of "See why" on the canvas backend, by its canvas id.
+fn design_painter<'a>(v: &'a Views, id: &str) -> Option<impl Fn(&DrawingArea<PageCanvas, Shift>, &Look) -> DrawResult<PageCanvas> + 'a> {
+    let which = CHARTS.iter().position(|&c| c == id)?;
+    Some(move |a: &DrawingArea<PageCanvas, Shift>, l: &Look| match which {
+        0 => sampling::draw(a, &v.sampling, l),
+        1 => by_n::draw(a, &v.by_n, l),
+        2 => tradeoff::draw(a, &v.tradeoff, l),
+        _ => total_error::draw(a, &v.total, l),
+    })
+}
+
+/// A data file's chart on the canvas backend, by its canvas id.
+fn data_painter<'a>(v: &'a DataViews, id: &str) -> Option<impl Fn(&DrawingArea<PageCanvas, Shift>, &Look) -> DrawResult<PageCanvas> + 'a> {
+    let histogram = match id {
+        "chart-histogram" => true,
+        "chart-quantile" => false,
+        _ => return None,
+    };
+    Some(move |a: &DrawingArea<PageCanvas, Shift>, l: &Look| {
+        if histogram { histogram::draw(a, &v.histogram, l) } else { quantile::draw(a, &v.quantile, l) }
+    })
+}
+
+/// Draw the data file's two charts (the views are kept for their save buttons).
+pub fn draw_data(v: &DataViews) {
+    for id in ["chart-histogram", "chart-quantile"] {
+        if let Some(draw) = data_painter(v, id) {
+            paint(id, &draw);
+        }
+    }
+    keep(|k| k.data = Some(v.clone()));
+}
+
+/// Forget the data file's views (its charts are hidden).
+pub fn forget_data() {
+    keep(|k| k.data = None);
+}
+
+// ---- Save as SVG and Save as PNG -------------------------------------
+//
+// Each chart's <figure> in index.html has two buttons,
+// `<button data-save="svg|png" data-chart="NAME">`, NAME one of
+// `svg::DESIGN_CHARTS` or `svg::DATA_CHARTS`, each with its click listener,
+// which saves from the views last drawn:
+// - SVG: `svg::design_chart` / `svg::data_chart`, the same document as the
+//   report's (FixedMetrics, the report's size), saved as
+//   `tern-chart-NAME.svg`;
+// - PNG: the chart drawn again by the same canvas functions on a canvas
+//   that is not in the page, at twice the displayed chart's CSS size with
+//   `Look::new(2.0)`: a fixed 2× rather than 2 × devicePixelRatio, so that
+//   the file is the same on every screen (on a 2× screen it is exactly the
+//   pixels shown), then `toBlob` and saved as `tern-chart-NAME.png`.
+// Both go through a Blob URL revoked after the click (`dom::download_blob`).
+
+/// The views last drawn, for the save buttons; and whether the buttons'
+/// listener is installed.
+#[derive(Default)]
+struct Kept {
+    design: Option<Views>,
+    data: Option<DataViews>,
+    listening: bool,
+}
+
+thread_local! {
+    static KEPT: RefCell<Kept> = RefCell::new(Kept::default());
+}
+
+/// Change what is kept, installing the buttons' listener the first time.
+fn keep(change: impl FnOnce(&mut Kept)) {
+    let install = KEPT.with(|k| {
+        let mut k = k.borrow_mut();
+        change(&mut k);
+        !std::mem::replace(&mut k.listening, true)
+    });
+    if install {
+        listen_for_saves();
+    }
+    let (design, data) = KEPT.with(|k| (k.borrow().design.is_some(), k.borrow().data.is_some()));
+    for (names, on) in [(&svg::DESIGN_CHARTS[..], design), (&svg::DATA_CHARTS[..], data)] {
+        for name in names {
+            for kind in ["svg", "png"] {
+                dom::set_attr(&format!("save-{kind}-{name}"), "disabled", (!on).then_some(""));
+            }
+        }
+    }
+}
+
+/// One click listener per save button. (Not one on the document: the
+/// download's own link click would bubble up to it while it runs.)
+fn listen_for_saves() {
+    let Some(buttons) = dom::document().and_then(|d| d.query_selector_all("button[data-save]").ok()) else { return };
+    for i in 0..buttons.length() {
+        let Some(button) = buttons.item(i).and_then(|n| n.dyn_into::<web_sys::Element>().ok()) else { continue };
+        let (Some(kind), Some(name)) = (button.get_attribute("data-save"), button.get_attribute("data-chart")) else { continue };
+        let cb = Closure::<dyn FnMut()>::new(move || {
+            let saved = if kind == "png" { save_png(&name) } else { save_svg(&name) };
+            if let Err(e) = saved {
+                web_sys::console::warn_1(&format!("the chart {name} could not be saved as {kind}: {e:?}").into());
+            }
+        });
+        if button.add_event_listener_with_callback("click", cb.as_ref().unchecked_ref()).is_ok() {
+            // The listeners live as long as the page.
+            cb.forget();
+        }
+    }
+}
+
+fn save_svg(name: &str) -> Result<(), JsValue> {
+    let text = KEPT.with(|k| {
+        let k = k.borrow();
+        k.design.as_ref().and_then(|v| svg::design_chart(v, name)).or_else(|| k.data.as_ref().and_then(|v| svg::data_chart(v, name)))
+    });
+    let text = text.ok_or("nothing drawn in this chart")?.map_err(|e| e.to_string())?;
+    let options = web_sys::BlobPropertyBag::new();
+    options.set_type("image/svg+xml");
+    let blob = web_sys::Blob::new_with_str_sequence_and_options(&js_sys::Array::of1(&JsValue::from_str(&text)), &options)?;
+    dom::download_blob(&format!("tern-chart-{name}.svg"), &blob)
+}
+
+fn save_png(name: &str) -> Result<(), JsValue> {
+    let id = format!("chart-{name}");
+    let shown = dom::canvas(&id).ok_or("no such chart")?;
+    let (css_w, css_h) = (shown.client_width(), shown.client_height());
+    if css_w < 10 || css_h < 10 {
+        return Err("the chart is not shown".into());
+    }
+    let offscreen: web_sys::HtmlCanvasElement = dom::document().ok_or("no document")?.create_element("canvas")?.dyn_into()?;
+    offscreen.set_width(2 * css_w as u32);
+    offscreen.set_height(2 * css_h as u32);
+    let look = Look::new(2.0);
+    let backend = PageCanvas::new(offscreen.clone()).ok_or("no 2D context")?;
+    let root = backend.into_drawing_area();
+    let drawn = KEPT.with(|k| {
+        let k = k.borrow();
+        if let Some(draw) = k.design.as_ref().and_then(|v| design_painter(v, &id)) {
+            Some(draw(&root, &look))
+        } else {
+            k.data.as_ref().and_then(|v| data_painter(v, &id)).map(|draw| draw(&root, &look))
+        }
+    });
+    drawn.ok_or("nothing drawn in this chart")?.and_then(|_| root.present()).map_err(|e| e.to_string())?;
+    let file = format!("tern-chart-{name}.png");
+    let done = Closure::once_into_js(move |blob: JsValue| {
+        let saved = blob.dyn_into::<web_sys::Blob>().map_err(|_| JsValue::from_str("the browser made no PNG")).and_then(|b| dom::download_blob(&file, &b));
+        if let Err(e) = saved {
+            web_sys::console::warn_1(&format!("the PNG could not be saved: {e:?}").into());
+        }
+    });
+    offscreen.to_blob(done.unchecked_ref())
 }

@@ -163,15 +163,22 @@ pub fn text_table(caption: &str, head: &[&str], rows: &[Vec<String>], row_heads:
     Some(table)
 }
 
-/// Save `text` as a file named `name` of type `mime`, through a Blob URL
-/// the browser downloads and the page revokes at once: nothing is sent.
+/// Save `text` as a file named `name` of type `mime` ([`download_blob`]).
 pub fn download(name: &str, text: &str, mime: &str) -> Result<(), JsValue> {
-    let doc = document().ok_or("no document")?;
     let options = web_sys::BlobPropertyBag::new();
     options.set_type(mime);
     let parts = js_sys::Array::of1(&JsValue::from_str(text));
     let blob = web_sys::Blob::new_with_str_sequence_and_options(&parts, &options)?;
-    let url = web_sys::Url::create_object_url_with_blob(&blob)?;
+    download_blob(name, &blob)
+}
+
+/// Hand `blob` to the browser's download as `name`: through a Blob URL on
+/// a link that is clicked and removed at once, the URL revoked right after
+/// the click (the browser has taken the file by then). Nothing leaves the
+/// machine and no data: URL is made.
+pub fn download_blob(name: &str, blob: &web_sys::Blob) -> Result<(), JsValue> {
+    let doc = document().ok_or("no document")?;
+    let url = web_sys::Url::create_object_url_with_blob(blob)?;
     let a: web_sys::HtmlAnchorElement = doc.create_element("a")?.dyn_into()?;
     a.set_href(&url);
     a.set_download(name);

@@ -16,7 +16,7 @@
 
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { root, dist, artifacts, startServer, stopServer, launch, text, act, check, run } from './lib.mjs';
+import { root, dist, artifacts, startServer, stopServer, launch, text, act, check, run, checkChartSaves } from './lib.mjs';
 
 mkdirSync(artifacts, { recursive: true });
 
@@ -107,6 +107,8 @@ async function main() {
     check('example: quantile plot has its table', await page.locator('#table-quantile table').count() === 1);
     check('example: the two protocols were picked as groups', /early loading/.test(await text(page, '#data-mapping')));
     await shot(page, 'data-example.png');
+    // The data file's charts save as SVG and PNG like the design's.
+    for (const name of ['histogram', 'quantile']) await checkChartSaves(page, name);
 
     // Undo puts back what was typed before, and "use again" refills.
     await act(page, () => page.click('#data-fill-undo'));

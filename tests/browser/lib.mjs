@@ -4,6 +4,7 @@
 // page to recompute.
 
 import { spawn } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from 'playwright-core';
@@ -94,4 +95,33 @@ export async function run(name, main, after = () => {}) {
   after();
   console.log(`${passed} passed, ${failed} failed`);
   process.exit(failed === 0 ? 0 : 1);
+}
+
+// Click a chart's "Save as SVG" and "Save as PNG" and check the files the
+// browser downloads: the SVG parses as XML (DOMParser, no parsererror) and
+// has a viewBox or a size; the PNG has the PNG signature and twice the
+// chart's CSS size (IHDR width and height). `name` is the chart's name
+// (`sampling`, `histogram`, ...), its canvas `#chart-NAME`.
+export async function checkChartSaves(page, name) {
+  const canvas = `#chart-${name}`;
+  // Centre the buttons, clear of the caution bar that sticks to the bottom.
+  await page.evaluate((sel) => document.querySelector(sel).scrollIntoView({ block: 'center' }), `#save-svg-${name}`);
+  const [svgDownload] = await Promise.all([page.waitForEvent('download', { timeout: 5000 }), page.click(`#save-svg-${name}`)]);
+  check(`save ${name}: SVG file name`, svgDownload.suggestedFilename() === `tern-chart-${name}.svg`, svgDownload.suggestedFilename());
+  check(`save ${name}: SVG through a Blob URL`, svgDownload.url().startsWith('blob:'), svgDownload.url());
+  const svgText = readFileSync(await svgDownload.path(), 'utf8');
+  const parsed = await page.evaluate((text) => {
+    const doc = new DOMParser().parseFromString(text, 'image/svg+xml');
+    const root = doc.documentElement;
+    return { error: doc.getElementsByTagName('parsererror').length, root: root.localName, width: root.getAttribute('width'), viewBox: root.getAttribute('viewBox') };
+  }, svgText);
+  check(`save ${name}: the SVG parses`, parsed.error === 0 && parsed.root === 'svg' && (parsed.viewBox || parsed.width), JSON.stringify(parsed));
+  const css = await page.evaluate((sel) => { const c = document.querySelector(sel); return [c.clientWidth, c.clientHeight]; }, canvas);
+  const [pngDownload] = await Promise.all([page.waitForEvent('download', { timeout: 5000 }), page.click(`#save-png-${name}`)]);
+  check(`save ${name}: PNG file name`, pngDownload.suggestedFilename() === `tern-chart-${name}.png`, pngDownload.suggestedFilename());
+  check(`save ${name}: PNG through a Blob URL`, pngDownload.url().startsWith('blob:'), pngDownload.url());
+  const png = readFileSync(await pngDownload.path());
+  const signature = png.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]));
+  const size = png.length >= 24 ? [png.readUInt32BE(16), png.readUInt32BE(20)] : [];
+  check(`save ${name}: a PNG twice the chart's CSS size`, signature && size[0] === 2 * css[0] && size[1] === 2 * css[1], `signature ${signature}, ${size} for CSS ${css}`);
 }

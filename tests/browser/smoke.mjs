@@ -4,8 +4,10 @@
 //
 // Checks: the demo renders all four charts (non-blank canvases, sized for
 // devicePixelRatio) with no console errors and no request off this machine;
-// an input change recomputes; bad values are flagged next to their field and
-// the page computes again once they are fixed; an inconclusive design; a new
+// each chart's Save as SVG and Save as PNG download a well-formed SVG and a
+// PNG at twice the chart's size; an input change recomputes; bad values are
+// flagged next to their field and the page computes again once they are
+// fixed; an inconclusive design; a new
 // design starts with empty limits; resizing redraws; a panic does not kill
 // the page (on dist-selftest/, the build with the test-only export that
 // panics; dist/ must not have it). Saves screenshots under tests/artifacts/
@@ -17,7 +19,7 @@
 import { mkdirSync, readdirSync, readFileSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import { root, dist, distSelftest, artifacts, startServer, stopServer, launch, text, type, check, run } from './lib.mjs';
+import { root, dist, distSelftest, artifacts, startServer, stopServer, launch, text, type, check, run, checkChartSaves } from './lib.mjs';
 
 mkdirSync(artifacts, { recursive: true });
 
@@ -121,6 +123,10 @@ async function main() {
       await page.evaluate((id) => document.getElementById(id).scrollIntoView({ block: 'center' }), id);
       await page.locator(`#${id}`).screenshot({ path: join(artifacts, `demo-${id}.png`) });
     }
+    // Each chart's Save as SVG and Save as PNG download a file, with no request.
+    const offsiteBefore = offsite.length;
+    for (const id of CHARTS) await checkChartSaves(page, id.replace('chart-', ''));
+    check('save: no request off this machine', offsite.length === offsiteBefore, offsite.join(', '));
     check('demo: no console errors', errors.length === 0, errors.join(' | '));
 
     // The exported engine contract answers like the command line.

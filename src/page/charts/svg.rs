@@ -97,19 +97,36 @@ pub fn render(size: (u32, u32), draw: SvgPainter<'_>) -> Result<String, SvgError
 
 /// The four charts of "See why", named as the page's canvases are
 /// (`sampling`, `by-n`, `tradeoff`, `total`).
-pub fn design_charts(v: &Views) -> Result<Vec<(&'static str, String)>, SvgError> {
-    Ok(vec![
-        ("sampling", render(DESIGN_SIZE, &|a, l| sampling::draw(a, &v.sampling, l))?),
-        ("by-n", render(DESIGN_SIZE, &|a, l| by_n::draw(a, &v.by_n, l))?),
-        ("tradeoff", render(DESIGN_SIZE, &|a, l| tradeoff::draw(a, &v.tradeoff, l))?),
-        ("total", render(DESIGN_SIZE, &|a, l| total_error::draw(a, &v.total, l))?),
-    ])
+pub const DESIGN_CHARTS: [&str; 4] = ["sampling", "by-n", "tradeoff", "total"];
+/// The data file's two charts.
+pub const DATA_CHARTS: [&str; 2] = ["histogram", "quantile"];
+
+/// One chart of "See why" by its name (`DESIGN_CHARTS`); None for another name.
+pub fn design_chart(v: &Views, id: &str) -> Option<Result<String, SvgError>> {
+    Some(match id {
+        "sampling" => render(DESIGN_SIZE, &|a, l| sampling::draw(a, &v.sampling, l)),
+        "by-n" => render(DESIGN_SIZE, &|a, l| by_n::draw(a, &v.by_n, l)),
+        "tradeoff" => render(DESIGN_SIZE, &|a, l| tradeoff::draw(a, &v.tradeoff, l)),
+        "total" => render(DESIGN_SIZE, &|a, l| total_error::draw(a, &v.total, l)),
+        _ => return None,
+    })
 }
 
-/// The data file's two charts (`histogram`, `quantile`).
+/// One of the data file's charts by its name (`DATA_CHARTS`); None for another name.
+pub fn data_chart(v: &DataViews, id: &str) -> Option<Result<String, SvgError>> {
+    Some(match id {
+        "histogram" => render(DATA_SIZE, &|a, l| histogram::draw(a, &v.histogram, l)),
+        "quantile" => render(DATA_SIZE, &|a, l| quantile::draw(a, &v.quantile, l)),
+        _ => return None,
+    })
+}
+
+/// The four charts of "See why" in order, with their names.
+pub fn design_charts(v: &Views) -> Result<Vec<(&'static str, String)>, SvgError> {
+    DESIGN_CHARTS.iter().filter_map(|&id| design_chart(v, id).map(|svg| svg.map(|s| (id, s)))).collect()
+}
+
+/// The data file's two charts in order, with their names.
 pub fn data_charts(v: &DataViews) -> Result<Vec<(&'static str, String)>, SvgError> {
-    Ok(vec![
-        ("histogram", render(DATA_SIZE, &|a, l| histogram::draw(a, &v.histogram, l))?),
-        ("quantile", render(DATA_SIZE, &|a, l| quantile::draw(a, &v.quantile, l))?),
-    ])
+    DATA_CHARTS.iter().filter_map(|&id| data_chart(v, id).map(|svg| svg.map(|s| (id, s)))).collect()
 }

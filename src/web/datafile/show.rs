@@ -358,10 +358,10 @@ pub fn charts(v: Option<&DataViews>) {
     let Some(v) = v else {
         dom::replace("table-histogram", None);
         dom::replace("table-quantile", None);
+        canvas::forget_data();
         return;
     };
-    canvas::paint("chart-histogram", &|a, l| histogram::draw(a, &v.histogram, l));
-    canvas::paint("chart-quantile", &|a, l| quantile::draw(a, &v.quantile, l));
+    canvas::draw_data(v);
     let (cap, head, rows) = histogram::numbers(&v.histogram);
     dom::replace("table-histogram", dom::text_table(&cap, &head, &rows, true).as_ref());
     let (cap, head, rows) = quantile::numbers(&v.quantile);
