@@ -1,7 +1,7 @@
 //! From a request to a [`Report`]: the sections in reading order, each
 //! written from the engine's answer.
 
-use super::apa::{self, Inline, symbol, text};
+use super::apa::{self, Inline, text};
 use super::{Block, Report, Section, Table};
 use crate::engine::decision::{Outcome, Summary};
 use crate::engine::design::{Design, Effect};
@@ -410,7 +410,12 @@ fn decision_section(req: &Request, ans: &Answer, unit: &str) -> Option<Section> 
     p.extend(apa::p_value(d.conventional.p_value));
     if let Some(ci) = &d.interval {
         let places = apa::decimals_for(ci.high - ci.low);
-        p.push(text(format!("; {}", apa::interval(ci.level, ci.low, ci.high, places))));
+        let why = match (req.interval_level, ans.design.alternative) {
+            (Some(_), _) => "the level chosen".to_string(),
+            (None, Alternative::TwoSided) => "the level 1 − α that matches the two-sided test".to_string(),
+            (None, _) => "the level 1 − 2α whose bound matches the one-sided test".to_string(),
+        };
+        p.push(text(format!("; {}{u}, {why}", apa::interval(ci.level, ci.low, ci.high, places))));
     }
     if let Some(es) = &d.effect_size {
         p.push(text("; "));
@@ -422,26 +427,10 @@ fn decision_section(req: &Request, ans: &Answer, unit: &str) -> Option<Section> 
         limit(ans.design.alpha_max),
         if d.conventional.rejects_at_alpha_max { "rejects" } else { "does not reject" }
     )));
-    let mut facts: Vec<(String, Vec<Inline>)> = card.rows.into_iter().map(|(k, v)| (k, vec![text(v)])).collect();
-    if let Some(ci) = &d.interval {
-        let why = match (req.interval_level, ans.design.alternative) {
-            (Some(_), _) => "the level you chose".to_string(),
-            (None, Alternative::TwoSided) => format!("1 − α limit, matching the two-sided test at α = {}", limit(ans.design.alpha_max)),
-            (None, _) => format!("1 − 2·α limit: its one bound matches the one-sided test at α = {}", limit(ans.design.alpha_max)),
-        };
-        let places = apa::decimals_for(ci.high - ci.low);
-        facts.push((
-            "confidence interval".into(),
-            vec![text(format!("{}{u} ({}; level {why})", apa::interval(ci.level, ci.low, ci.high, places), ci.method))],
-        ));
-    }
-    if let Some(es) = &d.effect_size {
-        facts.push((format!("effect size, {}", es.name), vec![symbol(es.symbol), text(format!(" = {} {}", apa::fixed(es.value, 2), es.note))]));
-    }
+    // The card's rows already hold the interval, the effect size and why
+    // either is missing; the paragraph above says why the level is what it is.
+    let facts: Vec<(String, Vec<Inline>)> = card.rows.into_iter().map(|(k, v)| (k, vec![text(v)])).collect();
     let mut blocks = vec![Block::Paragraph(p), Block::Facts(facts)];
-    if !d.omitted.is_empty() {
-        blocks.push(Block::List(d.omitted.clone()));
-    }
     if let Some(s) = &req.data {
         blocks.push(Block::Table(summary_rows(s)));
     }
