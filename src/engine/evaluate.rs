@@ -145,14 +145,20 @@ pub enum EvaluateError {
 
 /// Solve the threshold of a model: α*, β* and the cut.
 pub fn solve(model: &Model) -> Result<(Cut, Errors, Vec<DiscreteCut>), ThresholdError> {
+    solve_with_work(model).map(|(c, e, t, _)| (c, e, t))
+}
+
+/// [`solve`] with the work a discrete solve took (counts walked, see
+/// `threshold::DiscreteSolution::work`; 0 for continuous statistics).
+pub fn solve_with_work(model: &Model) -> Result<(Cut, Errors, Vec<DiscreteCut>, u64), ThresholdError> {
     Ok(match &model.sampling {
         Sampling::Continuous { h0, h1 } => {
             let s = solve_continuous(h0, h1, model.setup)?;
-            (Cut::Continuous(s.cut), s.errors, Vec::new())
+            (Cut::Continuous(s.cut), s.errors, Vec::new(), 0)
         }
         Sampling::Discrete { h0, h1 } => {
             let s = solve_discrete(h0, h1, model.setup)?;
-            (Cut::Discrete(s.cut), s.errors, s.ties)
+            (Cut::Discrete(s.cut), s.errors, s.ties, s.work)
         }
     })
 }

@@ -11,7 +11,7 @@
 
 use super::design::{Design, N_MAX};
 use super::dist::{Continuous, Discrete, Normal};
-use super::evaluate::{EvaluateError, Evaluation, evaluate, sig3, solve, within};
+use super::evaluate::{EvaluateError, Evaluation, evaluate, sig3, solve_with_work, within};
 use super::conventional::{continuous_level, discrete_level_near};
 use super::threshold::DiscreteCut;
 use std::cell::Cell;
@@ -34,6 +34,12 @@ pub const N_MAX_DISCRETE: u64 = 200_000;
 /// Youden n (30,934) within it and checks the stable range up to about
 /// 40,500 instead of 61,868, saying so.
 pub const DISCRETE_SOLVE_BUDGET: usize = 25_000;
+
+/// The work of one solve in the budget's unit: a solve that walks more
+/// counts than this (far-apart windows, a weight near 0 or 1 that sends
+/// the walk across the whole window) is charged one solve per this many,
+/// so the budget holds the time to a few seconds whatever the design.
+pub const WORK_PER_SOLVE: u64 = 250;
 
 /// Sample sizes the count families' conventional scan may try, from the
 /// randomized Neyman–Pearson bound on. Each costs a bisection of O(log n)
@@ -87,9 +93,12 @@ fn sizes(design: &Design, n1: u64) -> GroupSizes {
 
 /// α*, β* at n1 (planning values), counting solves.
 pub fn errors_at(design: &Design, n1: u64, solves: &mut usize) -> Result<Errors, EvaluateError> {
-    *solves += 1;
     let model = design.model(n1)?;
-    Ok(solve(&model)?.1)
+    let (_, errors, _, work) = solve_with_work(&model)?;
+    // A solve that walked more than WORK_PER_SOLVE counts is charged as
+    // several, so the budget bounds the time and not only the number.
+    *solves += 1 + usize::try_from(work / WORK_PER_SOLVE).unwrap_or(usize::MAX / 2);
+    Ok(errors)
 }
 
 /// The conventional power at n1.
@@ -429,12 +438,13 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     if let Some(n) = stopped_at {
         let said = match youden {
             None => format!(
-                "The search stopped at n = {n} per group: its budget of {DISCRETE_SOLVE_BUDGET} threshold solves ran out before any n was \
-                 conclusive (no smaller n is). Larger limits or a larger effect need far smaller samples."
+                "The search stopped at n = {n} per group: its budget of {DISCRETE_SOLVE_BUDGET} threshold solves (a solve over more than \
+                 {WORK_PER_SOLVE} counts counting as several) ran out before any n was conclusive (no smaller n is). Larger limits or a \
+                 larger effect need far smaller samples."
             ),
             Some(_) => format!(
                 "Every n from the stable point was checked only up to {}: the search's budget of {DISCRETE_SOLVE_BUDGET} threshold \
-                 solves ran out there.",
+                 solves (a solve over more than {WORK_PER_SOLVE} counts counting as several) ran out there.",
                 n - 1
             ),
         };

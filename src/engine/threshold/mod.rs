@@ -69,7 +69,13 @@ pub struct DiscreteSolution {
     /// Every cut-off whose weighted error equals the minimum within 1e-12
     /// relative, the pick included, in increasing order of k.
     pub ties: Vec<DiscreteCut>,
+    /// The work the solve took, in counts walked (a tail sum counting as
+    /// [`TAIL_WORK`]): for callers that budget many solves.
+    pub work: u64,
 }
+
+/// The work charged for one pair of tail sums (α and β of a region).
+pub const TAIL_WORK: u64 = 64;
 
 /// Relative closeness under which two weighted errors count as tied.
 pub const TIE_TOLERANCE: f64 = 1e-12;

@@ -3,7 +3,7 @@
 
 use super::mass_window::{first_true, mass_window_last, window_mode};
 use super::region::{DiscreteCut, Errors, discrete_errors};
-use super::{DiscreteSolution, TIE_TOLERANCE};
+use super::{DiscreteSolution, TAIL_WORK, TIE_TOLERANCE};
 use crate::engine::dist::Discrete;
 
 /// The one-sided discrete solve (see [`super::solve_discrete`]): reject
@@ -156,7 +156,8 @@ where
         .iter()
         .copied()
         .fold(ties[0], |acc, x| if x.1.alpha < acc.1.alpha { x } else { acc });
-    DiscreteSolution { cut, errors, ties: ties.into_iter().map(|(c, _)| c).collect() }
+    let work = TAIL_WORK * (ties.len() as u64 + 1);
+    DiscreteSolution { cut, errors, ties: ties.into_iter().map(|(c, _)| c).collect(), work }
 }
 
 #[cfg(test)]
