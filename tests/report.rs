@@ -184,3 +184,29 @@ fn report_from_a_data_file_holds_summaries_only() {
     let (a, b): (serde_json::Value, serde_json::Value) = (serde_json::from_str(&from_block).unwrap(), serde_json::from_str(&from_file).unwrap());
     assert_eq!(a["decision"], b["decision"], "the design block reproduces the decision without the file");
 }
+
+/// Regressions (found by the long fuzz run): summary figures at the edge
+/// of the doubles (a mean or SD of 1.8e308, a σ of 1e300) made the
+/// sampling chart's axis infinite and plotters' pixel arithmetic overflow.
+/// The report is built; the observed value far outside the curves is
+/// marked at the edge of the chart.
+#[test]
+fn extreme_figures_do_not_break_the_charts() {
+    for text in [
+        r#"{"family": "paired_t", "alternative": "less", "theta0": 0, "theta1": -35.338192217550755, "sigma": 0.01, "alpha_max": 0.001, "beta_max": 0.001, "data": {"n": 10, "mean": 1.7976931348623157e308, "sd": 13.595009583731837}}"#,
+        r#"{"family": "paired_t", "alternative": "two_sided", "theta0": 0, "theta1": 0.9236197109119423, "sigma": 1e300, "alpha_max": 0.001, "beta_max": 0.001, "data": {"n": 1782, "mean": 0, "sd": 0.01}}"#,
+        r#"{"family": "mean_z", "alternative": "greater", "theta0": 0, "theta1": 13.473194061450391, "sigma": 1e8, "alpha_max": 0.001, "beta_max": 0.001, "data": {"n": 1, "mean": 1.7976931348623157e308}}"#,
+        r#"{"family": "mean_t", "alternative": "two_sided", "theta0": 0, "theta1": 24.33939679727062, "sigma": 10.748780052292659, "alpha_max": 0.001, "beta_max": 0.001, "data": {"n": 4, "mean": 0, "sd": 1.7976931348623157e308}}"#,
+        r#"{"family": "two_means_pooled", "alternative": "two_sided", "theta0": 0, "theta1": 0.01, "sigma": 0.01, "alpha_max": 0.001, "beta_max": 0.001, "data": {"n1": 320, "mean1": 1.7976931348623157e308, "sd1": 44.91696756850147, "n2": 21, "mean2": 0, "sd2": 0.01}}"#,
+    ] {
+        match tern::report::prepare(text, tern::report::Stamp::today("2026-12-03".into()), None) {
+            Ok(p) => {
+                let html = p.html();
+                for svg in svgs(&html) {
+                    roxmltree::Document::parse(svg).expect("well-formed chart");
+                }
+            }
+            Err(e) => assert!(!e.to_string().is_empty(), "{text}"),
+        }
+    }
+}

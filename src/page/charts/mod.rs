@@ -183,8 +183,39 @@ fn draw_glyph<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, g: Glyph, (x, c
     }
 }
 
-/// A chart context on f64 axes.
-pub type Chart<'a, DB> = ChartContext<'a, DB, Cartesian2d<RangedCoordf64, RangedCoordf64>>;
+/// A chart context on f64 axes that hold every point near the plot.
+pub type Chart<'a, DB> = ChartContext<'a, DB, Cartesian2d<Clamped, Clamped>>;
+
+/// An f64 axis that holds every value within eight widths of its range
+/// before plotters maps it to whole pixels: a point far outside the plot
+/// (a value at the edge of the doubles) would otherwise overflow the pixel
+/// arithmetic. Inside that band it maps exactly as `RangedCoordf64`; NaN
+/// goes to the range's start.
+#[derive(Clone)]
+pub struct Clamped(RangedCoordf64);
+
+impl Clamped {
+    fn hold(&self, v: f64) -> f64 {
+        let r = self.0.range();
+        let band = 8.0 * (r.end - r.start);
+        if v.is_nan() { r.start } else { v.clamp(r.start - band, r.end + band) }
+    }
+}
+
+impl Ranged for Clamped {
+    type FormatOption = plotters::coord::ranged1d::DefaultFormatting;
+    type ValueType = f64;
+    fn map(&self, value: &f64, limit: (i32, i32)) -> i32 {
+        self.0.map(&self.hold(*value), limit)
+    }
+    fn key_points<Hint: plotters::coord::ranged1d::KeyPointHint>(&self, hint: Hint) -> Vec<f64> {
+        self.0.key_points(hint)
+    }
+    fn range(&self) -> std::ops::Range<f64> {
+        self.0.range()
+    }
+}
+
 
 /// The mesh every chart shares: light grid, labelled axes.
 pub fn mesh<DB: DrawingBackend>(
@@ -228,13 +259,22 @@ pub fn cartesian<'a, DB: DrawingBackend>(
         .margin_bottom(look.px(4.0))
         .x_label_area_size(look.px(44.0))
         .y_label_area_size(look.px(58.0))
-        .build_cartesian_2d(x0..x1, y0..y1)
+        .build_cartesian_2d(Clamped(RangedCoordf64::from(x0..x1)), Clamped(RangedCoordf64::from(y0..y1)))
 }
 
-/// A range plotters can draw: finite, increasing, non-empty.
+/// A range plotters can draw: finite, increasing, non-empty, and held
+/// within ±f64::MAX/4 so that its width is finite too and every finite
+/// point lies within a few widths of it (plotters maps a point through the
+/// width to whole pixels, which overflow otherwise).
 pub fn sane_range((a, b): (f64, f64)) -> (f64, f64) {
-    let (a, b) = if a.is_finite() && b.is_finite() { (a.min(b), a.max(b)) } else { (0.0, 1.0) };
-    if b - a > 1e-12 * (1.0 + a.abs()) { (a, b) } else { (a - 0.5, b + 0.5) }
+    const LIMIT: f64 = f64::MAX / 4.0;
+    let (a, b) = if a.is_finite() && b.is_finite() { (a.min(b).clamp(-LIMIT, LIMIT), a.max(b).clamp(-LIMIT, LIMIT)) } else { (0.0, 1.0) };
+    if b - a > 1e-12 * (1.0 + a.abs()) {
+        (a, b)
+    } else {
+        let half = 0.5f64.max(1e-6 * a.abs());
+        (a - half, b + half)
+    }
 }
 
 /// Diagonal hatching inside a region of the plot, `inside(x, y)` in data

@@ -3,7 +3,7 @@
 //! area (dotted, under θ1 where it is not) and the observed value.
 
 use super::prep::SamplingView;
-use super::{DrawResult, Glyph, H0, H1, INK, Look, OBSERVED, cartesian, dots, hatch, interpolate, legend, mesh, prob, short};
+use super::{DrawResult, Glyph, H0, H1, INK, Look, OBSERVED, cartesian, dots, hatch, interpolate, legend, mesh, prob, sane_range, short};
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use plotters::style::text_anchor::{HPos, Pos, VPos};
@@ -20,15 +20,22 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, v: &SamplingView,
         items.push((Glyph::Marker(OBSERVED), "observed".into()));
     }
     let plot = legend(area, &items, look)?;
-    let xs = v.h0.iter().chain(v.h1.iter()).map(|p| p.0).chain(v.observed).chain(v.cuts.iter().copied());
+    let xs = v.h0.iter().chain(v.h1.iter()).map(|p| p.0).chain(v.cuts.iter().copied());
     let (mut x0, mut x1) = xs.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), x| (a.min(x), b.max(x)));
     if !(x0.is_finite() && x1.is_finite()) {
         (x0, x1) = (0.0, 1.0);
     }
+    // The observed value widens the axis when it lies within twenty spans
+    // of the curves; farther out it is marked at the edge, "off the chart".
+    let span = (x1 - x0).abs().max(1e-300);
+    if let Some(o) = v.observed.filter(|o| o.is_finite() && (*o - x0) > -20.0 * span && (*o - x1) < 20.0 * span) {
+        (x0, x1) = (x0.min(o), x1.max(o));
+    }
     let pad = (x1 - x0) * 0.03;
     let ymax = v.h0.iter().chain(v.h1.iter()).map(|p| p.1).fold(0.0_f64, f64::max);
     let ymax = if ymax > 0.0 && ymax.is_finite() { ymax * 1.18 } else { 1.0 };
-    let mut chart = cartesian(&plot, look, (x0 - pad, x1 + pad), (0.0, ymax))?;
+    let (lo, hi) = sane_range((x0 - pad, x1 + pad));
+    let mut chart = cartesian(&plot, look, (lo, hi), (0.0, ymax))?;
     mesh(&mut chart, look, &v.x_label, &v.y_label, &|x| short(*x), &|y| short(*y))?;
 
     let rejected = |x: f64| v.reject.iter().any(|&(a, b)| x >= a && x <= b);
@@ -67,11 +74,13 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, v: &SamplingView,
     if let Some(p) = label_spot(&v.h1, &|x| !rejected(x)) {
         chart.draw_series(std::iter::once(Text::new("β", p, look.text_in(15.0, H1).pos(Pos::new(HPos::Center, VPos::Center)))))?;
     }
-    if let Some(o) = v.observed {
+    if let Some(observed) = v.observed {
+        let o = if observed.is_nan() { lo } else { observed.clamp(lo, hi) };
         chart.draw_series(std::iter::once(PathElement::new(vec![(o, 0.0), (o, ymax * 0.78)], OBSERVED.stroke_width(look.width(2.5)))))?;
         chart.draw_series(std::iter::once(Circle::new((o, ymax * 0.78), look.px(4.5), OBSERVED.filled())))?;
         // The label runs away from the nearest threshold, beside the marker.
-        let label = format!("observed {}", with_unit(short(o), &v.unit));
+        let off = if o == observed { "" } else { ", off the chart" };
+        let label = format!("observed {}{off}", with_unit(short(observed), &v.unit));
         let near = v.cuts.iter().copied().min_by(|a, b| (a - o).abs().total_cmp(&(b - o).abs()));
         let dx = (x1 - x0) * 0.015;
         let (anchor, x) = if near.is_some_and(|c| o < c) { (HPos::Right, o - dx) } else { (HPos::Left, o + dx) };
