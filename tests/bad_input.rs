@@ -91,7 +91,7 @@ fn table() -> Vec<Case> {
         case("d -inf", Input::Spec(base(MeanT).without(&["theta0", "theta1", "sigma"]).with("d", -inf)), &["d is -inf", "finite"]),
         case("alpha_max NaN", Input::Spec(with(MeanT, |s| s.set("alpha_max", nan))), &["alpha_max is NaN", "between 0 and 0.5"]),
         case("beta_max +inf", Input::Spec(with(MeanT, |s| s.set("beta_max", inf))), &["beta_max is inf", "between 0 and 0.5"]),
-        case("weight NaN", Input::Spec(with(MeanT, |s| s.set("weight", nan))), &["weight is NaN", "between 0 and 1"]),
+        case("weight NaN", Input::Spec(with(MeanT, |s| s.set("weight", nan))), &["weight is NaN", "between 0.000001 and 0.999999"]),
         case("p2 NaN", Input::Spec(with(TwoProportions, |s| s.set("p2", nan))), &["p2 is NaN", "between 0 and 1"]),
         case("proportion theta0 -inf", Input::Spec(with(ProportionExact, |s| s.set("theta0", -inf))), &["theta0 is -inf", "between 0 and 1"]),
         case("ratio NaN", Input::Spec(with(TwoMeansWelch, |s| s.set("ratio", nan))), &["ratio is NaN", "between 0 and 100"]),
@@ -179,8 +179,12 @@ fn table() -> Vec<Case> {
         case("sigma missing", Input::Spec(with(MeanZ, |s| s.unset("sigma"))), &["sigma is missing", "standard deviation"]),
         case("p2 missing", Input::Spec(with(TwoProportions, |s| s.unset("p2"))), &["p2 is missing"]),
         // --- Weight: an open interval, 0 and 1 excluded.
-        case("weight 0", Input::Spec(with(MeanT, |s| s.set("weight", 0.0))), &["weight is 0", "between 0 and 1"]),
-        case("weight 1", Input::Spec(with(MeanT, |s| s.set("weight", 1.0))), &["weight is 1", "between 0 and 1"]),
+        case("weight 0", Input::Spec(with(MeanT, |s| s.set("weight", 0.0))), &["weight is 0", "between 0.000001 and 0.999999"]),
+        case("weight 1", Input::Spec(with(MeanT, |s| s.set("weight", 1.0))), &["weight is 1", "between 0.000001 and 0.999999"]),
+        // A weight past a million to one ties every rule with every other
+        // (found by the long fuzz run: 5e-324 at n = 10,000,000 took 20 s).
+        case("weight 5e-324", Input::Spec(with(ProportionExact, |s| s.set("weight", 5e-324))), &["weight is 5e-324", "a millionth"]),
+        case("weight 1 - 1e-9", Input::Spec(with(MeanT, |s| s.set("weight", 1.0 - 1e-9))), &["weight is 0.999999999", "0.999999"]),
         // --- Proportions strictly inside (0, 1).
         case("p0 = 0", Input::Spec(with(ProportionExact, |s| s.set("theta0", 0.0))), &["theta0 is 0", "between 0 and 1"]),
         case("p0 = 1", Input::Spec(with(ProportionNormal, |s| s.set("theta0", 1.0))), &["theta0 is 1", "between 0 and 1"]),

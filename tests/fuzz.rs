@@ -425,6 +425,7 @@ fn registry_request(entry: &'static Entry) -> BoxedStrategy<String> {
         (_, Input::Whole) | (Check::Whole, _) => FieldKind::Count,
         (Check::Positive, _) => FieldKind::Spread,
         (Check::OpenUnit | Check::Dropout, _) => FieldKind::Proportion,
+        (Check::Weight, _) => FieldKind::Weight,
         (Check::Ratio, _) => FieldKind::Ratio,
         (Check::Limit, _) => FieldKind::Limit,
         (Check::Finite, _) => FieldKind::Mean,

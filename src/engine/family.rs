@@ -65,7 +65,15 @@ pub enum Check {
     Whole,
     /// A dropout share: from 0 to [`DROPOUT_MAX`].
     Dropout,
+    /// A cost weight: from [`WEIGHT_MIN`] to 1 − [`WEIGHT_MIN`].
+    Weight,
 }
+
+/// The smallest cost weight taken (and 1 − it the largest): a false alarm
+/// weighing a millionth of a miss, or a million times as much. Past it the
+/// weighted error falls below the arithmetic's rounding and every rule
+/// ties with every other, which no plan means.
+pub const WEIGHT_MIN: f64 = 1e-6;
 
 /// The largest dropout share taken: above it the number to enrol is more
 /// than twenty times the sample size, which is no plan.
@@ -82,6 +90,7 @@ impl Check {
             Check::Ratio => "between 0 and 100 (n2 = ratio·n1)",
             Check::Whole => "a whole number",
             Check::Dropout => "a share from 0 to 0.95 (0.15 or 15% for 15 in 100 lost)",
+            Check::Weight => "between 0.000001 and 0.999999 (a false alarm weighing from a millionth to a million times a miss)",
         }
     }
 
@@ -96,6 +105,7 @@ impl Check {
             Check::Ratio => v.is_finite() && v > 0.0 && v <= 100.0,
             Check::Whole => v.is_finite() && v.fract() == 0.0,
             Check::Dropout => (0.0..=DROPOUT_MAX).contains(&v),
+            Check::Weight => (WEIGHT_MIN..=1.0 - WEIGHT_MIN).contains(&v),
         }
     }
 }
@@ -297,7 +307,7 @@ pub const LIMITS: [Field; 3] = [
         "choose the largest type II error rate (missed effect) the context can accept, between 0 and 0.5",
         field("beta_max", "Largest miss rate you accept, β limit", "the largest miss rate you accept (β limit)", Input::Rate, Check::Limit),
     ),
-    optional(field("weight", "Cost weight w", "the cost weight w", Input::Rate, Check::OpenUnit)),
+    optional(field("weight", "Cost weight w", "the cost weight w", Input::Rate, Check::Weight)),
 ];
 
 /// The sample size to check (per group for two groups).

@@ -144,7 +144,7 @@ pub fn size_card(ans: &Answer, unit: &str) -> SizeCard {
     // The cost weight that would reproduce the conventional test, offered
     // as a one-click suggestion.
     let balancing = match ss.balancing_weight {
-        Some(w) if w.is_finite() && w > 0.0 && w < 1.0 => {
+        Some(w) if crate::engine::family::Check::Weight.holds(w) => {
             let shown = format!("{w:.3}");
             let words = format!("Use w = {shown}: the weight that reproduces the conventional test");
             Some((shown, words))
