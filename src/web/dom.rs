@@ -173,9 +173,9 @@ pub fn download(name: &str, text: &str, mime: &str) -> Result<(), JsValue> {
 }
 
 /// Hand `blob` to the browser's download as `name`: through a Blob URL on
-/// a link that is clicked and removed at once, the URL revoked right after
-/// the click (the browser has taken the file by then). Nothing leaves the
-/// machine and no data: URL is made.
+/// a link that is clicked and removed at once, the URL revoked
+/// `REVOKE_AFTER_MS` after the click, once the browser has read the Blob.
+/// Nothing leaves the machine and no data: URL is made.
 pub fn download_blob(name: &str, blob: &web_sys::Blob) -> Result<(), JsValue> {
     let doc = document().ok_or("no document")?;
     let url = web_sys::Url::create_object_url_with_blob(blob)?;
@@ -186,8 +186,17 @@ pub fn download_blob(name: &str, blob: &web_sys::Blob) -> Result<(), JsValue> {
     body.append_child(&a)?;
     a.click();
     body.remove_child(&a)?;
-    web_sys::Url::revoke_object_url(&url)
+    // Revoked a little later, not at once: the browser reads the Blob after
+    // the click returns, and a URL revoked first can lose the download.
+    let revoke = wasm_bindgen::closure::Closure::once_into_js(move || {
+        let _ = web_sys::Url::revoke_object_url(&url);
+    });
+    window().ok_or("no window")?.set_timeout_with_callback_and_timeout_and_arguments_0(revoke.unchecked_ref(), REVOKE_AFTER_MS)?;
+    Ok(())
 }
+
+/// How long a download's Blob URL lives (milliseconds).
+const REVOKE_AFTER_MS: i32 = 10_000;
 
 /// Add or remove a class on the page's body.
 pub fn set_class_on_body(class: &str, on: bool) {
