@@ -228,6 +228,8 @@ struct Kept {
     design: Option<Views>,
     data: Option<DataViews>,
     listening: bool,
+    /// Whether the design's and the data's buttons are enabled now.
+    shown: Option<(bool, bool)>,
 }
 
 thread_local! {
@@ -244,7 +246,18 @@ fn keep(change: impl FnOnce(&mut Kept)) {
     if install {
         listen_for_saves();
     }
-    let (design, data) = KEPT.with(|k| (k.borrow().design.is_some(), k.borrow().data.is_some()));
+    // The buttons are enabled or disabled only when that changes: a redraw
+    // on every keystroke must not write twelve attributes each time.
+    let Some((design, data)) = KEPT.with(|k| {
+        let mut k = k.borrow_mut();
+        let now = (k.design.is_some(), k.data.is_some());
+        (k.shown != Some(now)).then(|| {
+            k.shown = Some(now);
+            now
+        })
+    }) else {
+        return;
+    };
     for (names, on) in [(&svg::DESIGN_CHARTS[..], design), (&svg::DATA_CHARTS[..], data)] {
         for name in names {
             for kind in ["svg", "png"] {
