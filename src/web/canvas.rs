@@ -9,6 +9,7 @@ use super::dom;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 use super::page_canvas::PageCanvas;
+use base64::Engine;
 use std::cell::RefCell;
 use wasm_bindgen::JsCast;
 use wasm_bindgen::prelude::*;
@@ -218,7 +219,7 @@ pub fn forget_data() {
 //   that is not in the page, at twice the displayed chart's CSS size with
 //   `Look::new(2.0)`: a fixed 2× rather than 2 × devicePixelRatio, so that
 //   the file is the same on every screen (on a 2× screen it is exactly the
-//   pixels shown), then `toBlob` and saved as `tern-chart-NAME.png`.
+//   pixels shown), encoded at once (`toDataURL`) and saved as `tern-chart-NAME.png`.
 // Both go through a Blob URL revoked after the click (`dom::download_blob`).
 
 /// The views last drawn, for the save buttons; and whether the buttons'
@@ -321,12 +322,15 @@ fn save_png(name: &str) -> Result<(), JsValue> {
         }
     });
     drawn.ok_or("nothing drawn in this chart")?.and_then(|_| root.present()).map_err(|e| e.to_string())?;
-    let file = format!("tern-chart-{name}.png");
-    let done = Closure::once_into_js(move |blob: JsValue| {
-        let saved = blob.dyn_into::<web_sys::Blob>().map_err(|_| JsValue::from_str("the browser made no PNG")).and_then(|b| dom::download_blob(&file, &b));
-        if let Err(e) = saved {
-            web_sys::console::warn_1(&format!("the PNG could not be saved: {e:?}").into());
-        }
-    });
-    offscreen.to_blob(done.unchecked_ref())
+    // Encoded at once (a data URL, decoded here) rather than through the
+    // asynchronous toBlob, so the download starts within the click: a
+    // download from a later callback can be held back by the browser.
+    let url = offscreen.to_data_url_with_type("image/png")?;
+    let encoded = url.split_once(',').map(|(_, d)| d).ok_or("the browser made no PNG")?;
+    let bytes = base64::engine::general_purpose::STANDARD.decode(encoded).map_err(|e| JsValue::from_str(&e.to_string()))?;
+    let options = web_sys::BlobPropertyBag::new();
+    options.set_type("image/png");
+    let parts = js_sys::Array::of1(&js_sys::Uint8Array::from(&bytes[..]));
+    let blob = web_sys::Blob::new_with_u8_array_sequence_and_options(&parts, &options)?;
+    dom::download_blob(&format!("tern-chart-{name}.png"), &blob)
 }
