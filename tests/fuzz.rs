@@ -35,7 +35,8 @@ use std::sync::mpsc::{RecvTimeoutError, channel};
 use std::time::{Duration, Instant};
 use tern::engine::design::{Design, DesignSpec, Family, N_MAX};
 use tern::engine::family::{Check, Entry, Field, Input, REGISTRY};
-use tern::engine::request::{design_fields, run};
+use tern::engine::request::{self, design_fields, run, run_simulation};
+use tern::engine::simulate::shape::{Param, SHAPES};
 use tern::engine::table::{
     DecimalMark, Mapping, ReadOptions, SheetCell, SheetGrid, Table, TableBuilder, group_values, histogram, is_spreadsheet,
     normal_quantile_points, parse_number, read_grid, read_table, summarise,
@@ -214,7 +215,7 @@ fn json_document() -> BoxedStrategy<String> {
 fn check_request(text: String) -> Result<(), TestCaseError> {
     let shown = if text.len() > 2000 { format!("{}…", &text[..text.char_indices().nth(2000).map_or(text.len(), |(k, _)| k)]) } else { text.clone() };
     // Requests with study notes also build the report, in every format.
-    let (text_has_notes, report_text) = (text.contains("\"notes\""), text.clone());
+    let (text_has_notes, report_text, simulation_text) = (text.contains("\"notes\""), text.clone(), text.clone());
     let started = Instant::now();
     let out = bounded(&format!("run({shown})"), move || run(&text).map_err(|e| e.to_string()))?;
     if started.elapsed() > SLOW {
@@ -228,6 +229,9 @@ fn check_request(text: String) -> Result<(), TestCaseError> {
         }
         Err(msg) => prop_assert!(!msg.trim().is_empty(), "run({shown}) refused with an empty message"),
     }
+    if simulation_text.contains("\"simulation\"") {
+        check_simulation(simulation_text)?;
+    }
     if text_has_notes {
         let started = Instant::now();
         let out = bounded(&format!("report({shown})"), move || {
@@ -239,6 +243,29 @@ fn check_request(text: String) -> Result<(), TestCaseError> {
         match out {
             Ok((html, md, json)) => prop_assert!(html.ends_with("</html>\n") && !md.is_empty() && !json.is_empty(), "report({shown}) is incomplete"),
             Err(msg) => prop_assert!(!msg.trim().is_empty(), "report({shown}) refused with an empty message"),
+        }
+    }
+    Ok(())
+}
+
+/// The simulation check of a request: answered or refused with a message,
+/// within the case's time; with the `resample` shape also from groups of
+/// extreme values.
+fn check_simulation(text: String) -> Result<(), TestCaseError> {
+    let shown = if text.len() > 2000 { format!("{}…", &text[..text.char_indices().nth(2000).map_or(text.len(), |(k, _)| k)]) } else { text.clone() };
+    let started = Instant::now();
+    let out = bounded(&format!("simulate({shown})"), move || {
+        let plain = run_simulation(&text).map(|_| ()).map_err(|e| e.to_string());
+        let groups = vec![vec![0.0, 5e-324, -1e300, 1e300, 3.5], vec![1.0, 1.0, 1.0, 2.0]];
+        let resampled = request::parse(&text).and_then(|r| request::simulate(&r, Some(groups))).map(|_| ()).map_err(|e| e.to_string());
+        (plain, resampled)
+    })?;
+    if started.elapsed() > SLOW {
+        println!("slow simulation ({:.1} s): {shown}", started.elapsed().as_secs_f64());
+    }
+    for r in [out.0, out.1] {
+        if let Err(msg) = r {
+            prop_assert!(!msg.trim().is_empty(), "simulate({shown}) refused with an empty message");
         }
     }
     Ok(())
@@ -291,6 +318,35 @@ fn value(kind: FieldKind) -> BoxedStrategy<String> {
 }
 
 const ALTERNATIVES: [&str; 3] = ["greater", "less", "two_sided"];
+
+/// A `simulation` block: every shape (and a stray name), its parameters
+/// from the registry's ranges and past them, the replicates mostly small
+/// (the run's time grows with them) and sometimes at the limits, a seed.
+fn simulation_block() -> BoxedStrategy<String> {
+    let ids: Vec<&'static str> = SHAPES.iter().map(|s| s.id).chain(["cauchy"]).collect();
+    let param = |p: &'static Param| {
+        prop_oneof![
+            6 => (p.min..=p.max).prop_map(|x| x.to_string()),
+            2 => prop::sample::select(vec![p.min, p.max, p.suggested]).prop_map(|x| x.to_string()),
+            1 => extreme_number(),
+        ]
+        .prop_map(move |v| (p.key, v))
+    };
+    let params: Vec<BoxedStrategy<Option<(&'static str, String)>>> =
+        SHAPES.iter().flat_map(|s| s.params).map(|p| prop::option::weighted(0.6, param(p)).boxed()).collect();
+    let replicates = prop_oneof![
+        12 => (1u64..400).prop_map(|x| x.to_string()),
+        1 => prop::sample::select(vec!["0", "1", "1000000", "1000001", "2.5", "-3", "1e300"]).prop_map(str::to_string),
+    ];
+    let seed = prop_oneof![4 => any::<u32>().prop_map(|x| x.to_string()), 1 => extreme_number()];
+    (prop::sample::select(ids), params, replicates, seed)
+        .prop_map(|(id, params, replicates, seed)| {
+            let mut fields = vec![format!("\"shape\": \"{id}\""), format!("\"replicates\": {replicates}"), format!("\"seed\": {seed}")];
+            fields.extend(params.into_iter().flatten().map(|(k, v)| format!("\"{k}\": {v}")));
+            format!("{{{}}}", fields.join(", "))
+        })
+        .boxed()
+}
 
 /// The effect on the side the alternative asks for (mostly), as field tokens.
 fn effect(family: &'static str, alternative: &'static str) -> BoxedStrategy<Vec<(&'static str, String)>> {
@@ -399,8 +455,10 @@ fn structured_for(family: &'static str, alternative: &'static str) -> BoxedStrat
         // The report's own fields: a dropout share and texts (these cases
         // also build the report).
         prop::option::weighted(0.15, (value(FieldKind::Proportion), string_token(), string_token())),
+        // The simulation check (these cases also run it).
+        prop::option::weighted(0.12, simulation_block()),
     )
-        .prop_map(move |(effect, alpha, beta, weight, ratio, n, data, curves, stray, level, report)| {
+        .prop_map(move |(effect, alpha, beta, weight, ratio, n, data, curves, stray, level, report, simulation)| {
             let mut fields = vec![("family", format!("\"{family}\"")), ("alternative", format!("\"{alternative}\""))];
             fields.extend(effect);
             fields.push(("alpha_max", alpha));
@@ -411,6 +469,7 @@ fn structured_for(family: &'static str, alternative: &'static str) -> BoxedStrat
             if let Some((dropout, unit, notes)) = report {
                 fields.extend([("dropout", dropout), ("unit", unit), ("notes", notes)]);
             }
+            fields.extend(simulation.map(|s| ("simulation", s)));
             let inner: Vec<String> = fields.into_iter().map(|(k, v)| format!("\"{k}\": {v}")).collect();
             format!("{{{}}}", inner.join(", "))
         })

@@ -19,6 +19,14 @@ usage:
                       (value, first, second, group, level1, level2, outcome,
                       success) and may set exclude_rows, delimiter, decimal,
                       header, missing and sheet
+  tern simulate [FILE] [--data DATAFILE]
+                      the simulation check of the design in FILE (or standard
+                      input): its \"simulation\" block names the population
+                      shape, its parameters, the replicates and the seed; the
+                      check runs at the design's n (or the smallest conclusive
+                      n) with its dropout and prints the realised error rates
+                      of both rules as JSON; the \"resample\" shape draws from
+                      DATAFILE's values (the same seed gives the same numbers)
   tern report FILE [--data DATAFILE] [--format html|md|json] [--out PATH]
                       write the report of the design in FILE (or standard
                       input for -): a self-contained HTML file (the default;
@@ -33,8 +41,8 @@ The input fields and two worked examples are in the README.";
 fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
     match args.first().map(String::as_str) {
-        Some("run") => match run_args(&args[1..]) {
-            Ok((design, data)) => run(design, data),
+        Some(command @ ("run" | "simulate")) => match run_args(&args[1..]) {
+            Ok((design, data)) => run(design, data, command == "simulate"),
             Err(message) => {
                 eprintln!("tern: {message}\n\n{USAGE}");
                 ExitCode::from(2)
@@ -92,7 +100,8 @@ fn read_input(path: Option<&str>) -> Result<String, String> {
     }
 }
 
-fn run(path: Option<&str>, data: Option<&str>) -> ExitCode {
+/// `run`, or `simulate` when `check` is set.
+fn run(path: Option<&str>, data: Option<&str>, check: bool) -> ExitCode {
     let text = match read_input(path) {
         Ok(s) => s,
         Err(e) => {
@@ -101,11 +110,16 @@ fn run(path: Option<&str>, data: Option<&str>) -> ExitCode {
         }
     };
     let answer = match data {
+        None if check => tern::engine::request::run_simulation(&text),
         None => tern::engine::request::run(&text),
         Some(file) => match std::fs::read(file) {
             Ok(bytes) => {
                 let name = std::path::Path::new(file).file_name().map_or(file.to_string(), |n| n.to_string_lossy().into_owned());
-                tern::engine::data_file::run_from_file(&text, &bytes, &name)
+                if check {
+                    tern::engine::data_file::simulate_from_file(&text, &bytes, &name)
+                } else {
+                    tern::engine::data_file::run_from_file(&text, &bytes, &name)
+                }
             }
             Err(e) => {
                 eprintln!("tern: cannot read {file}: {e}");

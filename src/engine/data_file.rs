@@ -221,3 +221,20 @@ pub fn run_from_file(text: &str, bytes: &[u8], name: &str) -> Result<String, Req
     let a = answer_from_file(text, bytes, name)?;
     serde_json::to_string_pretty(&a).map_err(|e| RequestError::NotJson(e.to_string()))
 }
+
+/// The simulation check of a design (JSON text with a `simulation` block)
+/// beside its data file: the file's values per group are what the
+/// `resample` shape draws from (yes/no outcomes have none to resample).
+pub fn simulate_with_file(text: &str, bytes: &[u8], name: &str) -> Result<request::SimulationAnswer, RequestError> {
+    let mut f = read_with_file(text, bytes, name)?;
+    f.request.remove("data");
+    let req = request::parse_value(&Value::Object(f.request))?;
+    let groups = if f.values.is_empty() { None } else { Some(f.values) };
+    request::simulate(&req, groups)
+}
+
+/// The same, serialised: `tern simulate design.json --data FILE`.
+pub fn simulate_from_file(text: &str, bytes: &[u8], name: &str) -> Result<String, RequestError> {
+    let a = simulate_with_file(text, bytes, name)?;
+    serde_json::to_string_pretty(&a).map_err(|e| RequestError::NotJson(e.to_string()))
+}

@@ -12,7 +12,7 @@ use super::dist::{Continuous, Discrete};
 use super::family::{Check, INTERVAL_LEVEL};
 use super::interval::{EffectSize, Interval, check_level, confidence_interval, default_level, effect_size};
 use super::evaluate::{EvaluateError, Evaluation, evaluate_observed, sig3};
-use super::model::{Observed, Sampling};
+use super::model::{Model, Observed, Sampling};
 use super::threshold::{Alternative, distance_tolerance};
 use serde::Serialize;
 
@@ -179,25 +179,28 @@ fn kind(s: &Summary) -> &'static str {
     }
 }
 
-/// Decide from summary data, with the confidence interval at the level
-/// that follows α_max (`interval::default_level`).
-pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError> {
-    decide_at_level(design, data, None)
+/// What a decision reads off summary data: the statistic, the estimate,
+/// the group sizes and the observed spreads the model takes.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Observation {
+    /// The observed statistic (z, t, or the count X).
+    pub statistic: f64,
+    /// A mean, a difference or a proportion.
+    pub estimate: f64,
+    pub n1: u64,
+    pub n2: Option<u64>,
+    pub observed: Observed,
 }
 
-/// [`decide`] with the confidence interval at `level` (in (0, 1); None:
-/// the level that follows α_max). A level outside (0, 1) is refused,
-/// named `interval_level`.
-pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> Result<Decision, DecisionError> {
-    let level = match level {
-        Some(l) => Some(check_level(l).map_err(|_| DecisionError::Value { field: INTERVAL_LEVEL.key, value: l, rule: Check::OpenUnit.rule() })?),
-        None => None,
-    };
+/// The statistic and the rest of an [`Observation`] from summary data, by
+/// the family's definition (DEVELOPERS.md, "Families"); the one place a
+/// statistic is computed from data (decisions and the simulation check).
+pub fn observe(design: &Design, data: &Summary) -> Result<Observation, DecisionError> {
     let (theta0, _) = design.effect.thetas();
     let family = design.family;
     let wrong = || wrong_kind(family, data);
     // Statistic, estimate, group sizes and observed spreads.
-    let (t, estimate, n1, n2, obs) = match (family, *data) {
+    let (statistic, estimate, n1, n2, observed) = match (family, *data) {
         (Family::MeanZ, Summary::OneGroup { n, mean, .. }) => {
             let n = count("data.n", n, 1.0)?;
             let mean = finite("data.mean", mean)?;
@@ -252,12 +255,17 @@ pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> R
         }
         _ => return Err(wrong()),
     };
-    let at_n = evaluate_observed(design, n1, n2, &obs)?;
-    let model = &at_n.model;
+    Ok(Observation { statistic, estimate, n1, n2, observed })
+}
+
+/// The p-value of the statistic `t` under the model's H0: one tail in the
+/// alternative's direction; two-sided, both tails at the same distance
+/// from the centre (for counts, every count at least as far from n·p0,
+/// within `threshold::distance_tolerance`). In [0, 1].
+pub fn p_value(model: &Model, alternative: Alternative, t: f64) -> f64 {
     let centre = model.setup.centre;
-    let in_region = at_n.cut.rejects(t);
-    let p_value = match &model.sampling {
-        Sampling::Continuous { h0, .. } => match design.alternative {
+    let p = match &model.sampling {
+        Sampling::Continuous { h0, .. } => match alternative {
             Alternative::Greater => h0.sf(t),
             Alternative::Less => h0.cdf(t),
             Alternative::TwoSided => {
@@ -267,7 +275,7 @@ pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> R
         },
         Sampling::Discrete { h0, .. } => {
             let x = t as u64;
-            match design.alternative {
+            match alternative {
                 Alternative::Greater => if x == 0 { 1.0 } else { h0.sf(x - 1) },
                 Alternative::Less => h0.cdf(x),
                 Alternative::TwoSided => {
@@ -283,7 +291,27 @@ pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> R
         }
     };
     // Tail sums may round a hair above 1.
-    let p_value = p_value.clamp(0.0, 1.0);
+    p.clamp(0.0, 1.0)
+}
+
+/// Decide from summary data, with the confidence interval at the level
+/// that follows α_max (`interval::default_level`).
+pub fn decide(design: &Design, data: &Summary) -> Result<Decision, DecisionError> {
+    decide_at_level(design, data, None)
+}
+
+/// [`decide`] with the confidence interval at `level` (in (0, 1); None:
+/// the level that follows α_max). A level outside (0, 1) is refused,
+/// named `interval_level`.
+pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> Result<Decision, DecisionError> {
+    let level = match level {
+        Some(l) => Some(check_level(l).map_err(|_| DecisionError::Value { field: INTERVAL_LEVEL.key, value: l, rule: Check::OpenUnit.rule() })?),
+        None => None,
+    };
+    let Observation { statistic: t, estimate, n1, n2, observed } = observe(design, data)?;
+    let at_n = evaluate_observed(design, n1, n2, &observed)?;
+    let in_region = at_n.cut.rejects(t);
+    let p_value = p_value(&at_n.model, design.alternative, t);
     let outcome = if !at_n.conclusive {
         Outcome::Inconclusive
     } else if in_region {

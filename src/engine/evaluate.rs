@@ -180,6 +180,23 @@ pub fn evaluate_observed(design: &Design, n1: u64, n2: Option<u64>, obs: &Observ
     evaluate_model(design, model)
 }
 
+/// The threshold and the verdict at given group sizes with observed
+/// values, without the words and the conventional figures: a decision's
+/// steps for the simulation check, which repeats them per data set.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Judged {
+    pub model: Model,
+    pub cut: Cut,
+    pub errors: Errors,
+    pub conclusive: bool,
+}
+
+pub fn judge_observed(design: &Design, n1: u64, n2: Option<u64>, obs: &Observed) -> Result<Judged, EvaluateError> {
+    let model = design.model_observed(n1, n2, obs)?;
+    let (cut, errors, _) = solve(&model)?;
+    Ok(Judged { model, cut, errors, conclusive: within(design, &errors) })
+}
+
 fn evaluate_model(design: &Design, model: Model) -> Result<Evaluation, EvaluateError> {
     let (cut, errors, ties) = solve(&model)?;
     let (rule, ties) = match cut {

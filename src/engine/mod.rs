@@ -18,6 +18,7 @@ pub mod decision;
 pub mod interval;
 pub mod curves;
 pub mod inverse;
+pub mod simulate;
 pub mod context;
 pub mod shown;
 pub mod request;

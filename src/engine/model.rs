@@ -179,6 +179,19 @@ impl Design {
         self.model_observed(n1, n2, &Observed::default())
     }
 
+    /// The observed values that change the sampling distributions (so the
+    /// threshold and the verdict) beyond the group sizes: Welch's df takes
+    /// the observed SDs, the two-proportion z its observed pooled SE. The
+    /// other families' thresholds on the statistic's scale depend on the
+    /// sizes alone (their observed SD only maps T to the estimate).
+    pub fn sampling_observed(&self, obs: &Observed) -> Observed {
+        match self.family {
+            Family::TwoMeansWelch => Observed { sd1: obs.sd1, sd2: obs.sd2, se0: None },
+            Family::TwoProportions => Observed { se0: obs.se0, ..Observed::default() },
+            _ => Observed::default(),
+        }
+    }
+
     /// The model at the given group sizes, with observed SDs where the
     /// statistic uses them.
     pub fn model_observed(&self, n1: u64, n2: Option<u64>, obs: &Observed) -> Result<Model, ModelError> {

@@ -14,6 +14,7 @@ use super::evaluate::{EvaluateError, Evaluation, evaluate};
 use super::inverse::{SmallestEffect, smallest_effect};
 use super::sample_size::{GroupSizes, SampleSize, sample_size};
 use super::context::{self, Context};
+use super::simulate::{self, Plan, Simulation, SimulationError};
 use super::threshold::Alternative;
 use serde::Serialize;
 use serde_json::{Map, Value};
@@ -30,7 +31,7 @@ pub fn design_fields() -> Vec<&'static str> {
     v.extend(family::design_keys());
     v
 }
-const OTHER_FIELDS: [&str; 4] = ["n", "data", "curves", family::INTERVAL_LEVEL.key];
+const OTHER_FIELDS: [&str; 5] = ["n", "data", "curves", family::INTERVAL_LEVEL.key, "simulation"];
 
 /// What is wrong with a request.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -53,6 +54,8 @@ pub enum RequestError {
     Decision(#[from] DecisionError),
     #[error(transparent)]
     Evaluate(#[from] EvaluateError),
+    #[error(transparent)]
+    Simulation(#[from] SimulationError),
 }
 
 /// A parsed request.
@@ -67,6 +70,8 @@ pub struct Request {
     /// The decision's confidence level, when not the one that follows
     /// α_max (`interval_level`, in (0, 1)).
     pub interval_level: Option<f64>,
+    /// The simulation check's block (`tern simulate`), unchecked numbers.
+    pub simulation: Option<simulate::Spec>,
 }
 
 /// The full answer.
@@ -195,7 +200,80 @@ pub fn parse_value(value: &Value) -> Result<Request, RequestError> {
         Some(v) => return Err(RequestError::BadValue { field: "curves".into(), shown: shown(v), rule: "true or false".into() }),
     };
     let interval_level = interval_level(obj)?;
-    Ok(Request { design, n, data, curves, context, interval_level })
+    let simulation = match obj.get("simulation") {
+        None | Some(Value::Null) => None,
+        Some(Value::Object(b)) => Some(simulation_block(b)?),
+        Some(v) => return Err(RequestError::BadValue { field: "simulation".into(), shown: shown(v), rule: "an object such as {\"shape\": \"normal\", \"replicates\": 10000, \"seed\": 1}".into() }),
+    };
+    Ok(Request { design, n, data, curves, context, interval_level, simulation })
+}
+
+/// The `simulation` block: the shape's id and parameters, the number of
+/// data sets and the seed (checked by `simulate::Plan::new`).
+fn simulation_block(b: &Map<String, Value>) -> Result<simulate::Spec, RequestError> {
+    let mut known = vec!["shape", "replicates", "seed"];
+    known.extend(simulate::shape::param_keys());
+    check_fields(b, &known, "simulation.")?;
+    let id = match b.get("shape") {
+        None | Some(Value::Null) => {
+            return Err(SimulationError::Missing {
+                field: "simulation.shape".into(),
+                hint: format!("the population to draw from: one of {}", simulate::shape::SHAPES.iter().map(|s| s.id).collect::<Vec<_>>().join(", ")),
+            }
+            .into());
+        }
+        Some(Value::String(s)) => s.clone(),
+        Some(v) => return Err(RequestError::BadValue { field: "simulation.shape".into(), shown: shown(v), rule: "a shape's name such as \"normal\"".into() }),
+    };
+    let mut params = Vec::new();
+    for key in simulate::shape::param_keys() {
+        if let Some(v) = number(b, key, "simulation.")? {
+            params.push((key.to_string(), v));
+        }
+    }
+    Ok(simulate::Spec {
+        shape: simulate::shape::ShapeSpec { id, params, groups: None },
+        replicates: number(b, "replicates", "simulation.")?,
+        seed: number(b, "seed", "simulation.")?,
+    })
+}
+
+/// What `tern simulate` prints.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct SimulationAnswer {
+    pub tern_version: &'static str,
+    pub family: &'static str,
+    pub family_title: &'static str,
+    pub caution: &'static str,
+    pub simulation: Simulation,
+}
+
+/// The plan of a request's simulation check: at the request's `n`, or
+/// else at the smallest conclusive n; with the design's dropout; `groups`:
+/// a data file's values per group, for the `resample` shape.
+pub fn simulation_plan(req: &Request, groups: Option<Vec<Vec<f64>>>) -> Result<Plan, RequestError> {
+    let mut spec = req.simulation.clone().ok_or_else(|| SimulationError::Missing {
+        field: "simulation".into(),
+        hint: "an object such as {\"shape\": \"normal\", \"replicates\": 10000, \"seed\": 1} saying what to draw".into(),
+    })?;
+    spec.shape.groups = groups;
+    let n1 = match req.n {
+        Some(n) => n,
+        None => sample_size(&req.design)?.youden.map(|g| g.n1).ok_or_else(|| SimulationError::Missing {
+            field: "n".into(),
+            hint: "no conclusive sample size was found for this design, so state the n to check".into(),
+        })?,
+    };
+    Ok(Plan::new(req.design, n1, req.context.dropout, &spec)?)
+}
+
+/// Run a request's simulation check in one thread.
+pub fn simulate(req: &Request, groups: Option<Vec<Vec<f64>>>) -> Result<SimulationAnswer, RequestError> {
+    let plan = simulation_plan(req, groups)?;
+    let tally = plan.run();
+    let simulation = plan.result(&tally)?;
+    let design = &req.design;
+    Ok(SimulationAnswer { tern_version: env!("CARGO_PKG_VERSION"), family: design.family.id(), family_title: design.family.title(), caution: CAUTION, simulation })
 }
 
 /// `interval_level`, if given: a number in (0, 1).
@@ -331,7 +409,7 @@ pub fn reply(ask: &Ask) -> Reply {
             Err(e) => errors.push(e.into()),
         }
     }
-    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone(), interval_level: ask.interval_level };
+    let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone(), interval_level: ask.interval_level, simulation: None };
     let answer = match answer_with(&req, decision) {
         Ok(a) => a,
         Err(e) => {
@@ -392,5 +470,12 @@ pub fn json_number(v: f64) -> Value {
 pub fn run(text: &str) -> Result<String, RequestError> {
     let req = parse(text)?;
     let ans = answer(&req)?;
+    serde_json::to_string_pretty(&ans).map_err(|e| RequestError::NotJson(e.to_string()))
+}
+
+/// Parse, run the simulation check and serialise (`tern simulate`).
+pub fn run_simulation(text: &str) -> Result<String, RequestError> {
+    let req = parse(text)?;
+    let ans = simulate(&req, None)?;
     serde_json::to_string_pretty(&ans).map_err(|e| RequestError::NotJson(e.to_string()))
 }
