@@ -16,9 +16,10 @@ mod offline;
 mod page_canvas;
 mod report;
 mod saved;
+mod simulation;
 mod view;
 
-use crate::engine::request;
+use crate::engine::{request, simulate};
 use crate::page::charts::prep::{self, Views};
 use crate::page::form as page_form;
 use serde::Serialize;
@@ -41,9 +42,14 @@ thread_local! {
     static STATE: RefCell<State> = RefCell::new(State::default());
 }
 
-/// Entry point, called once by trunk's bootstrap.
+/// Entry point, called once by trunk's bootstrap. In a Web Worker (the
+/// simulation check's, which instantiates the same module) there is no
+/// window and nothing to set up.
 #[wasm_bindgen(start)]
 pub fn start() {
+    if web_sys::window().is_none() {
+        return;
+    }
     install_panic_hook();
     if let Err(e) = setup() {
         web_sys::console::error_1(&e);
@@ -81,6 +87,7 @@ fn setup() -> Result<(), JsValue> {
     let form_el = dom::by_id("tern-form").ok_or("the form #tern-form is missing")?;
     listen(&form_el, "input", |_| {
         report::form_changed();
+        simulation::form_changed();
         recompute();
     })?;
     listen(&form_el, "submit", |e| e.prevent_default())?;
@@ -130,6 +137,7 @@ fn setup() -> Result<(), JsValue> {
     saved::setup()?;
     report::setup()?;
     datafile::setup()?;
+    simulation::setup()?;
     if !saved::open_from_link() {
         demo::load_demo();
     }
@@ -193,6 +201,10 @@ fn recompute() {
         return;
     };
     view::show_answer(&answer, &reading.unit);
+    let typed = reading.ask.n.filter(|x| x.fract() == 0.0 && *x >= 1.0 && *x <= 1e7).map(|x| x as u64);
+    let sim_n = typed.or(answer.sample_size.youden.map(|g| g.n1));
+    let kind = if answer.design.family.entry().shape.binary() { simulate::shape::Kind::Outcomes } else { simulate::shape::Kind::Measurements };
+    simulation::design_shown(sim_n, sim_n.and_then(|n| answer.design.n2(n)), reading.ask.context.dropout, Some(kind));
     if answer.decision.is_none() && reading.data_started {
         view::show_no_decision("Complete or correct the summary figures marked above to decide.");
     }
@@ -258,4 +270,18 @@ pub fn tern_answer(request: JsValue) -> Result<JsValue, JsValue> {
 #[wasm_bindgen]
 pub fn tern_selftest_panic() {
     panic!("deliberate panic from tern_selftest_panic (browser test)");
+}
+
+/// A worker's share of a simulation check (run in the page's Web Workers,
+/// `web::simulation`): the blocks `first..last` of the request's
+/// `simulation` block, with a data file's groups for `resample` (JSON
+/// text, or empty), as the engine's `Tally`, a JavaScript object whose
+/// numbers cross to the page exactly (structured clone, no text).
+#[wasm_bindgen]
+pub fn tern_simulate_blocks(request: &str, groups: &str, first: f64, last: f64) -> Result<JsValue, JsValue> {
+    let req = request::parse(request).map_err(|e| JsValue::from_str(&e.to_string()))?;
+    let groups: Option<Vec<Vec<f64>>> = if groups.is_empty() { None } else { serde_json::from_str(groups).map_err(|e| JsValue::from_str(&e.to_string()))? };
+    let plan = request::simulation_plan(&req, groups).map_err(|e| JsValue::from_str(&e.to_string()))?;
+    let tally = plan.run_blocks(first.max(0.0) as u64..last.max(0.0) as u64);
+    serde_wasm_bindgen::to_value(&tally).map_err(|e| JsValue::from_str(&e.to_string()))
 }

@@ -69,6 +69,13 @@ async function main() {
       return reader.read_sheet_json(Uint8Array.from(atob(b64), (c) => c.charCodeAt(0)), undefined);
     }, xlsx);
     check('firefox, file://: the spreadsheet module reads an .xlsx', /"sheets":\["Waiting times","Dose"\]/.test(grid), String(grid).slice(0, 200));
+    // The simulation check, in a classic worker started from the page's
+    // inline source (a Blob URL), under the page's policy.
+    await page.$eval('#sim-replicates', (e) => { e.value = '2000'; });
+    await page.click('#sim-run');
+    await page.waitForFunction(() => ['done', 'stopped'].includes(document.getElementById('simulation').dataset.state), { timeout: 30000 });
+    const sim = JSON.parse(await page.evaluate(() => window.wasmBindings.tern_last_simulation()));
+    check('firefox, file://: the simulation check runs in its worker', sim.simulation.replicates_done === 2000 && (await txt('#simulation')).includes('Drawn: 2000 data sets'), await txt('#sim-msg'));
     const fetched = await page.evaluate(async () => {
       try {
         await fetch('http://127.0.0.1:9/never');
@@ -78,8 +85,8 @@ async function main() {
       }
     });
     check('firefox, file://: an injected fetch is blocked', fetched === 'blocked');
-    const other = requests.filter((u) => u !== url && !u.startsWith('data:'));
-    check('firefox, file://: no request but the file itself', other.length === 0, other.join(', '));
+    const other = requests.filter((u) => u !== url && !u.startsWith('data:') && !u.startsWith('blob:'));
+    check('firefox, file://: no request but the file itself (and its worker\'s Blob URL)', other.length === 0, other.join(', '));
     check('firefox, file://: no errors', errors.length === 0, errors.join(' | '));
     await page.screenshot({ path: join(artifacts, 'firefox-one-file.png') });
     console.log(`figure: one-file edition in Firefox from file://: demo drawn ${readyMs.toFixed(0)} ms after navigation start`);

@@ -99,7 +99,7 @@ pub(super) fn readings(sim: &Simulation) -> Vec<String> {
         sig3(1.0 - a.conventional_power)
     ));
     let (et, ec) = (t.total_error, c.total_error);
-    let se = et.se.hypot(ec.se);
+    let se = (et.se * et.se + ec.se * ec.se).sqrt();
     let verdict = if et.value + 2.0 * se < ec.value {
         "the threshold rule makes fewer errors in all"
     } else if ec.value + 2.0 * se < et.value {

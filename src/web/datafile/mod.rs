@@ -83,6 +83,21 @@ pub fn report_part() -> Option<crate::report::DataPart> {
     })
 }
 
+/// Each group's values of the loaded file as the current choice maps them
+/// (problem rows left out when the user chose so), for the simulation
+/// check's `resample` shape; None without a file, a complete mapping or
+/// measurements.
+pub fn group_values() -> Option<Vec<Vec<f64>>> {
+    let (t, family, choice, exclude) = with(|s| s.table.clone().map(|t| (t, s.family, s.choice.clone(), s.exclude)))?;
+    let sh = family?.entry().shape;
+    if sh.binary() {
+        return None;
+    }
+    let m = mapping::to_mapping(&t, sh, &choice).ok()?;
+    let rows: &[usize] = if exclude { &t.problems.rows } else { &[] };
+    table::group_values(&t, &m, rows).ok()
+}
+
 /// Wire the data-file controls. Their input events stay here: they must not
 /// recompute the design on every keystroke of a pasted table.
 pub fn setup() -> Result<(), JsValue> {
