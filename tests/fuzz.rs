@@ -235,7 +235,7 @@ fn check_request(text: String) -> Result<(), TestCaseError> {
     if text_has_notes {
         let started = Instant::now();
         let out = bounded(&format!("report({shown})"), move || {
-            tern::report::prepare(&report_text, tern::report::Stamp::today("2026-12-03".into()), None).map(|p| (p.html(), p.markdown(), p.json())).map_err(|e| e.to_string())
+            tern::report::prepare(&report_text, tern::report::Stamp::today("2026-12-03".into()), None, None).map(|p| (p.html(), p.markdown(), p.json())).map_err(|e| e.to_string())
         })?;
         if started.elapsed() > SLOW {
             println!("slow report ({:.1} s): {shown}", started.elapsed().as_secs_f64());

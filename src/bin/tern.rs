@@ -33,7 +33,9 @@ usage:
                       print it to PDF from a browser), CommonMark, or JSON;
                       to PATH, or to standard output; with --data, decided
                       from DATAFILE as tern run does, with its histogram and
-                      quantile plot (the report holds its summaries only)
+                      quantile plot (the report holds its summaries only);
+                      a \"simulation\" block adds the check by simulation,
+                      run as tern simulate runs it
   tern help           show this text
 
 The input fields and two worked examples are in the README.";
@@ -224,29 +226,38 @@ fn report(a: ReportArgs<'_>) -> ExitCode {
             return ExitCode::from(1);
         }
     };
-    // With a data file: the request with the file's summary figures as
-    // its data, and the file's charts and notes.
-    let (text, part) = match a.data {
-        None => (text, None),
-        Some(file) => {
-            let bytes = match std::fs::read(file) {
-                Ok(b) => b,
-                Err(e) => {
-                    eprintln!("tern: cannot read {file}: {e}");
-                    return ExitCode::from(1);
-                }
-            };
-            let name = std::path::Path::new(file).file_name().map_or(file.to_string(), |n| n.to_string_lossy().into_owned());
-            match tern::report::data_part_from_file(&text, &bytes, &name) {
-                Ok(x) => x,
-                Err(e) => {
-                    eprintln!("tern: {e}");
-                    return ExitCode::from(2);
-                }
+    let file = match a.data {
+        None => None,
+        Some(file) => match std::fs::read(file) {
+            Ok(bytes) => Some((bytes, std::path::Path::new(file).file_name().map_or(file.to_string(), |n| n.to_string_lossy().into_owned()))),
+            Err(e) => {
+                eprintln!("tern: cannot read {file}: {e}");
+                return ExitCode::from(1);
             }
+        },
+    };
+    // The simulation check the design's `simulation` block asks for, as
+    // `tern simulate` runs it (with the data file, for `resample`).
+    let simulation = match tern::report::simulation_of(&text, file.as_ref().map(|(b, n)| (b.as_slice(), n.as_str()))) {
+        Ok(s) => s,
+        Err(e) => {
+            eprintln!("tern: {e}");
+            return ExitCode::from(2);
         }
     };
-    let prepared = match tern::report::prepare(&text, tern::report::Stamp::today(today()), part.as_ref()) {
+    // With a data file: the request with the file's summary figures as
+    // its data, and the file's charts and notes.
+    let (text, part) = match &file {
+        None => (text, None),
+        Some((bytes, name)) => match tern::report::data_part_from_file(&text, bytes, name) {
+            Ok(x) => x,
+            Err(e) => {
+                eprintln!("tern: {e}");
+                return ExitCode::from(2);
+            }
+        },
+    };
+    let prepared = match tern::report::prepare(&text, tern::report::Stamp::today(today()), part.as_ref(), simulation.as_ref()) {
         Ok(p) => p,
         Err(e) => {
             eprintln!("tern: {e}");

@@ -9,9 +9,10 @@ use crate::engine::threshold::Alternative;
 use crate::engine::evaluate::Evaluation;
 use crate::engine::family::{self, Field};
 use crate::engine::request::{self, Answer, Request, RequestError};
+use crate::engine::simulate::Simulation;
 use crate::page::charts::prep::DataViews;
-use crate::page::charts::svg::{SvgError, data_charts, design_charts};
-use crate::page::charts::{histogram, quantile};
+use crate::page::charts::svg::{SvgError, data_charts, design_charts, simulation_chart};
+use crate::page::charts::{histogram, quantile, realised_errors};
 use crate::page::charts::table::design_numbers;
 use crate::page::charts::{prep, prob, short};
 use crate::page::results::{decide_card, rule_text, size_card, sizes, unit_of};
@@ -57,13 +58,15 @@ impl From<SvgError> for ReportError {
     }
 }
 
-/// A report with what it was built from: the request as JSON and the
-/// engine's answer (the JSON format carries both).
+/// A report with what it was built from: the request as JSON, the
+/// engine's answer and the simulation check's result when there was one
+/// (the JSON format carries them all).
 #[derive(Debug, Clone)]
 pub struct Prepared {
     pub report: Report,
     pub request: Value,
     pub answer: Answer,
+    pub simulation: Option<Simulation>,
 }
 
 impl Prepared {
@@ -76,7 +79,7 @@ impl Prepared {
     }
 
     pub fn json(&self) -> String {
-        super::json::json(&self.report, &self.request, &self.answer)
+        super::json::json(&self.report, &self.request, &self.answer, self.simulation.as_ref())
     }
 }
 
@@ -104,15 +107,38 @@ pub fn data_part_from_file(text: &str, bytes: &[u8], name: &str) -> Result<(Stri
     Ok((text, Some(DataPart { views, notes: f.summary.notes })))
 }
 
+/// The simulation check a request text asks for with its `simulation`
+/// block, run in one thread (`request::simulate`); with a data file's
+/// bytes and name, as `tern simulate --data` runs it
+/// (`data_file::simulate_with_file`: the `resample` shape draws from the
+/// file's groups). None when the request has no block. The caller passes
+/// the result to [`prepare`] (`tern report` does; the page passes the
+/// result of its own run of the same block).
+pub fn simulation_of(text: &str, file: Option<(&[u8], &str)>) -> Result<Option<Simulation>, ReportError> {
+    let value: Value = serde_json::from_str(text).map_err(|e| RequestError::NotJson(e.to_string()))?;
+    if value.get("simulation").is_none_or(Value::is_null) {
+        return Ok(None);
+    }
+    let answer = match file {
+        Some((bytes, name)) => crate::engine::data_file::simulate_with_file(text, bytes, name)?,
+        None => request::simulate(&request::parse_value(&value)?, None)?,
+    };
+    Ok(Some(answer.simulation))
+}
+
 /// Parse a request document and build its report (charts included), with
-/// a data file's part when its figures are the request's `data`.
-pub fn prepare(text: &str, stamp: Stamp, data: Option<&DataPart>) -> Result<Prepared, ReportError> {
+/// a data file's part when its figures are the request's `data`, and the
+/// section "Check by simulation" when a simulation check's result is
+/// given (that of the request's own `simulation` block, which the design
+/// block of the report then carries so that `tern simulate` reproduces
+/// it; see [`simulation_of`]).
+pub fn prepare(text: &str, stamp: Stamp, data: Option<&DataPart>, simulation: Option<&Simulation>) -> Result<Prepared, ReportError> {
     let request: Value = serde_json::from_str(text).map_err(|e| RequestError::NotJson(e.to_string()))?;
     let mut req = request::parse_value(&request)?;
     req.curves = true;
     let answer = request::answer(&req)?;
-    let report = build(&request, &req, &answer, stamp, data)?;
-    Ok(Prepared { report, request, answer })
+    let report = build(&request, &req, &answer, stamp, data, simulation)?;
+    Ok(Prepared { report, request, answer, simulation: simulation.cloned() })
 }
 
 /// The design as the reproducibility block shows it: the request's object
@@ -125,8 +151,9 @@ pub fn reproducible_json(value: &Value) -> String {
 }
 
 /// Build the report of a parsed request and its answer. `value` is the
-/// request as JSON (for the reproducibility block).
-pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp, data: Option<&DataPart>) -> Result<Report, ReportError> {
+/// request as JSON (for the reproducibility block); `simulation` the
+/// simulation check's result, if any.
+pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp, data: Option<&DataPart>, simulation: Option<&Simulation>) -> Result<Report, ReportError> {
     let design = &ans.design;
     let entry = design.family.entry();
     let unit = req.context.unit.as_str();
@@ -139,6 +166,12 @@ pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp, data: Opt
     sections.push(design_section(value, req, ans));
     sections.push(threshold_section(ans, at, unit));
     sections.push(size_section(req, ans, unit));
+    // The check of the planned size by simulation reads as the sample
+    // size's sequel: what the planned design does with data the model
+    // does not assume, before any data are decided.
+    if let Some(sim) = simulation {
+        sections.push(simulation_section(value, sim)?);
+    }
     if let Some(mut s) = decision_section(req, ans, unit) {
         if let Some(d) = data.filter(|d| !d.notes.is_empty()) {
             s.blocks.push(Block::Paragraph(vec![text("Notes on the data (advice; the test is not changed by them):")]));
@@ -171,7 +204,7 @@ pub fn build(value: &Value, req: &Request, ans: &Answer, stamp: Stamp, data: Opt
         }
         sections.push(Section { id: "charts", title: "Charts".into(), blocks });
     }
-    sections.push(reproduce_section(value, &stamp));
+    sections.push(reproduce_section(value, &stamp, simulation.is_some()));
     Ok(Report { title: format!("Tern report: {}", entry.title), stamp, caution: ans.caution.to_string(), sections })
 }
 
@@ -437,13 +470,90 @@ fn decision_section(req: &Request, ans: &Answer, unit: &str) -> Option<Section> 
     Some(Section { id: "decision", title: "The decision".into(), blocks })
 }
 
-fn reproduce_section(value: &Value, stamp: &Stamp) -> Section {
+/// The commands that reproduce a report's numbers from its design block.
+pub const RUN_COMMAND: &str = "tern run design.json";
+pub const SIMULATE_COMMAND: &str = "tern simulate design.json";
+
+fn reproduce_section(value: &Value, stamp: &Stamp, simulated: bool) -> Section {
+    let (words, commands) = if simulated {
+        ("The commands that reproduce every number in this report (the second, the check by simulation):", format!("{RUN_COMMAND}\n{SIMULATE_COMMAND}"))
+    } else {
+        ("The command that reproduces every number in this report:", RUN_COMMAND.to_string())
+    };
     let blocks = vec![
         Block::Paragraph(vec![text(stamp.line())]),
         Block::Paragraph(vec![text("The design as JSON (save it as design.json):")]),
         Block::Code { language: "json", text: reproducible_json(value) },
-        Block::Paragraph(vec![text("The command that reproduces every number in this report:")]),
-        Block::Code { language: "sh", text: "tern run design.json".into() },
+        Block::Paragraph(vec![text(words)]),
+        Block::Code { language: "sh", text: commands },
     ];
     Section { id: "reproduce", title: "Reproduce these numbers".into(), blocks }
+}
+
+/// "Check by simulation": what was drawn (population, size, dropout,
+/// replicates, seed), the chart of the realised error rates against the
+/// limits and the model with its table, each outcome's share under H0 and
+/// θ1 (the operating characteristics of the neutral zone, method.md §7b),
+/// the engine's readings and how to reproduce it. Every figure is the
+/// engine's `Simulation`, formatted.
+fn simulation_section(value: &Value, sim: &Simulation) -> Result<Section, ReportError> {
+    let view = realised_errors::prep(sim);
+    let mut blocks = vec![Block::Paragraph(vec![text(format!(
+        "The analytic α* and β* assume the model. To see what the planned design does with data from another population, \
+         data sets were drawn under H0 and under the alternative θ1 and each was sent through the whole decision (the statistic \
+         from the data, the threshold for its analysed size, inconclusive when the design there is not conclusive), beside the \
+         conventional rule (reject H0 when p ≤ {}).",
+        crate::engine::shown::Num(sim.alpha_max)
+    ))])];
+    let mut facts = vec![
+        ("population".to_string(), vec![text(sim.population.clone())]),
+        ("sample size (planned, analysed)".to_string(), vec![text(sizes(sim.n1, sim.n2))]),
+    ];
+    facts.push(match (sim.dropout, sim.enrol) {
+        (Some(q), Some(e)) => (
+            "dropout".to_string(),
+            vec![text(format!(
+                "{}: {} enrolled, each lost with probability {}, so the analysed size varies from one data set to the next",
+                apa::percent(q),
+                sizes(e.n1, e.n2),
+                apa::percent(q)
+            ))],
+        ),
+        _ => ("dropout".to_string(), vec![text("none: every data set has the planned size")]),
+    });
+    let drawn = if sim.replicates_done < sim.replicates {
+        format!("{} of the {} planned (the check was stopped early)", sim.replicates_done, sim.replicates)
+    } else {
+        sim.replicates_done.to_string()
+    };
+    facts.push(("data sets drawn under each hypothesis".to_string(), vec![text(drawn)]));
+    facts.push(("seed".to_string(), vec![text(sim.seed.to_string())]));
+    blocks.push(Block::Facts(facts));
+    let numbers = realised_errors::numbers(&view);
+    blocks.push(Block::Figure {
+        id: "simulation",
+        title: "Realised error rates against your limits and the model".into(),
+        svg: simulation_chart(&view)?,
+        numbers: Table { caption: numbers.caption, head: numbers.head, rows: numbers.rows },
+    });
+    blocks.push(Block::Paragraph(vec![text(
+        "How often each outcome occurs, under H0 and under θ1: the operating characteristics of the neutral zone. \
+         Realised α is the share of H0 data sets rejected; realised β the share of θ1 data sets not rejected, inconclusive included.",
+    )]));
+    let shares = realised_errors::shares(&view);
+    blocks.push(Block::Table(Table { caption: shares.caption, head: shares.head, rows: shares.rows }));
+    blocks.push(Block::Paragraph(vec![text("What the figures say:")]));
+    blocks.push(Block::List(sim.readings.clone()));
+    let resample = value.get("simulation").and_then(|b| b.get("shape")).and_then(Value::as_str) == Some("resample");
+    let again = if resample {
+        format!("{SIMULATE_COMMAND} --data with the data file the values were resampled from")
+    } else {
+        SIMULATE_COMMAND.to_string()
+    };
+    blocks.push(Block::Paragraph(vec![text(format!(
+        "Reproducible: {again}, on the design block below (its simulation block holds the shape, the replicates and the seed {}), \
+         gives these numbers again, on any machine and on the page: the seed fixes every draw.",
+        sim.seed
+    ))]));
+    Ok(Section { id: "simulation", title: "Check by simulation".into(), blocks })
 }

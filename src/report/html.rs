@@ -23,7 +23,8 @@ use crate::page::html::escape;
 /// together and three charts fit a page; the charts flow on from the
 /// decision with no forced break (a break before them would cost a page),
 /// and the reproducibility block, whose JSON should not be split from its
-/// heading, starts a page of its own.
+/// heading, starts a page of its own. The simulation check's chart is the
+/// exception: its table of seven columns goes below it at full width.
 pub const STYLE: &str = "\
 body.report-page { margin: 0; background: #fff; }
 .tern-report { font: 11pt/1.45 system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif; color: #111; background: #fff; max-width: 48rem; margin: 2rem auto; padding: 0 1rem; }
@@ -54,6 +55,9 @@ body.report-page { margin: 0; background: #fff; }
   .tern-report figcaption { grid-column: 1 / -1; margin-bottom: 1mm; }
   .tern-report figure svg { border: none; }
   .tern-report figure table { margin: 0; width: 100%; font-size: 7pt; line-height: 1.2; }
+  .tern-report figure#report-chart-simulation { display: block; }
+  .tern-report figure#report-chart-simulation svg { width: 80%; }
+  .tern-report figure#report-chart-simulation table { margin-top: 1.5mm; }
   .tern-report section#report-reproduce { break-before: page; page-break-before: always; }
   .tern-report pre { font-size: 8pt; padding: 1.5mm; }
   .tern-report a { color: inherit; text-decoration: none; }

@@ -71,7 +71,8 @@ fn prepare() {
     }
     let text = serde_json::to_string_pretty(&Value::Object(request_json(&reading.ask))).unwrap_or_default();
     let part = super::datafile::report_part();
-    match report::prepare(&text, Stamp::today(today()), part.as_ref()) {
+    // The page's own simulation check is not in its report yet.
+    match report::prepare(&text, Stamp::today(today()), part.as_ref(), None) {
         Ok(p) => {
             dom::set_html("report-body", &report::html::content(&p.report));
             PREPARED.with(|s| *s.borrow_mut() = Some(p));

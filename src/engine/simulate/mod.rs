@@ -494,6 +494,36 @@ impl Share {
         let p = count as f64 / r;
         Share { count, share: p, se: (p * (1.0 - p) / r).sqrt() }
     }
+
+    /// Where this rate stands against a limit: above or within it only
+    /// when it is more than two Monte Carlo standard errors away
+    /// (DEVELOPERS.md, "Simulation check"); otherwise at the limit. A
+    /// share or limit that is not a number is at the limit (nothing is
+    /// claimed).
+    pub fn against(&self, limit: f64) -> Standing {
+        let margin = 2.0 * self.se;
+        if self.share - margin > limit {
+            Standing::Above
+        } else if self.share + margin <= limit {
+            Standing::Within
+        } else {
+            Standing::AtLimit
+        }
+    }
+}
+
+/// A realised rate against the analyst's limit, judged beyond two Monte
+/// Carlo standard errors ([`Share::against`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Standing {
+    /// More than two standard errors below the limit (or at it exactly
+    /// with no simulation error).
+    Within,
+    /// Within two standard errors of the limit.
+    AtLimit,
+    /// More than two standard errors above the limit.
+    Above,
 }
 
 /// Each outcome's share under one hypothesis.
@@ -564,6 +594,14 @@ pub struct Analytic {
     /// The conventional test's attained α (α_max for continuous statistics).
     pub conventional_alpha: f64,
     pub conventional_power: f64,
+}
+
+impl Analytic {
+    /// The conventional test's miss rate, 1 − power (the figure its
+    /// realised β is compared with).
+    pub fn conventional_beta(&self) -> f64 {
+        1.0 - self.conventional_power
+    }
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]

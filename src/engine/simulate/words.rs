@@ -6,18 +6,15 @@
 //! Monte Carlo standard errors from it; otherwise it is "at the limit,
 //! within simulation error".
 
-use super::{Share, Simulation};
+use super::{Share, Simulation, Standing};
 use crate::engine::evaluate::sig3;
 
 /// A rate against its limit, in words.
 fn against(share: &Share, limit: f64) -> String {
-    let margin = 2.0 * share.se;
-    if share.share - margin > limit {
-        format!("above your limit {}", sig3(limit))
-    } else if share.share + margin <= limit {
-        format!("within your limit {}", sig3(limit))
-    } else {
-        format!("at your limit {} within simulation error (two standard errors)", sig3(limit))
+    match share.against(limit) {
+        Standing::Above => format!("above your limit {}", sig3(limit)),
+        Standing::Within => format!("within your limit {}", sig3(limit)),
+        Standing::AtLimit => format!("at your limit {} within simulation error (two standard errors)", sig3(limit)),
     }
 }
 
@@ -96,7 +93,7 @@ pub(super) fn readings(sim: &Simulation) -> Vec<String> {
         sig3(a.conventional_alpha),
         rate(&c.beta),
         against(&c.beta, sim.beta_max),
-        sig3(1.0 - a.conventional_power)
+        sig3(a.conventional_beta())
     ));
     let (et, ec) = (t.total_error, c.total_error);
     let se = (et.se * et.se + ec.se * ec.se).sqrt();

@@ -1,4 +1,5 @@
-//! The four charts of "See why" and the data file's two, as drawing code
+//! The four charts of "See why", the data file's two and the simulation
+//! check's, as drawing code
 //! generic over a plotters [`DrawingBackend`]: the page draws them on
 //! canvas, and natively the same functions draw SVG (`svg`).
 //!
@@ -16,6 +17,7 @@ pub mod by_n;
 pub mod histogram;
 pub mod prep;
 pub mod quantile;
+pub mod realised_errors;
 pub mod sampling;
 pub mod svg;
 pub mod table;
@@ -81,6 +83,46 @@ pub enum Glyph {
     Dots(RGBColor),
     Band(RGBColor),
     Marker(RGBColor),
+    /// A mark alone (the simulation chart's model values).
+    Mark(RGBColor, Mark),
+    /// A mark on a bar with end caps (an estimate with its error bar).
+    Interval(RGBColor, Mark),
+}
+
+/// A point's shape, so that what a point stands for does not rest on its
+/// colour: a filled disc, a filled triangle, or an open diamond.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Mark {
+    Disc,
+    Triangle,
+    Diamond,
+}
+
+/// Draw a mark centred at `(x, y)` (pixels of `area`), `r` pixels from its
+/// centre to its edge. The diamond is open: white inside, so that a disc
+/// or triangle drawn over it stays visible.
+pub fn draw_mark<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, mark: Mark, (x, y): (i32, i32), r: i32, color: RGBColor, look: &Look) -> DrawResult<DB> {
+    match mark {
+        Mark::Disc => area.draw(&Circle::new((x, y), r, color.filled())),
+        Mark::Triangle => {
+            let t = r + r / 4 + 1;
+            area.draw(&Polygon::new(vec![(x, y - t), (x + t, y + r), (x - t, y + r)], color.filled()))
+        }
+        Mark::Diamond => {
+            let corners = vec![(x, y - r), (x + r, y), (x, y + r), (x - r, y), (x, y - r)];
+            area.draw(&Polygon::new(corners.clone(), WHITE.filled()))?;
+            area.draw(&PathElement::new(corners, color.stroke_width(look.width(1.8))))
+        }
+    }
+}
+
+/// A horizontal error bar from `x0` to `x1` at height `y` (pixels of
+/// `area`) with end caps `cap` pixels high on each side.
+pub fn draw_bar<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, (x0, x1, y): (i32, i32, i32), cap: i32, color: RGBColor, look: &Look) -> DrawResult<DB> {
+    let style = color.stroke_width(look.width(2.0));
+    area.draw(&PathElement::new(vec![(x0, y), (x1, y)], style))?;
+    area.draw(&PathElement::new(vec![(x0, y - cap), (x0, y + cap)], style))?;
+    area.draw(&PathElement::new(vec![(x1, y - cap), (x1, y + cap)], style))
 }
 
 /// Draw a legend as rows of (glyph, text) across the top of `area`, and
@@ -180,6 +222,11 @@ fn draw_glyph<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, g: Glyph, (x, c
             area.draw(&PathElement::new(vec![(x + w / 2, cy - h - 2), (x + w / 2, cy + h + 2)], c.stroke_width(look.width(2.0))))?;
             area.draw(&Circle::new((x + w / 2, cy), look.px(4.0), c.filled()))
         }
+        Glyph::Mark(c, m) => draw_mark(area, m, (x + w / 2, cy), look.px(6.0), c, look),
+        Glyph::Interval(c, m) => {
+            draw_bar(area, (x + look.px(1.0), x + w - look.px(1.0), cy), look.px(4.0), c, look)?;
+            draw_mark(area, m, (x + w / 2, cy), look.px(4.5), c, look)
+        }
     }
 }
 
@@ -250,6 +297,19 @@ pub fn cartesian<'a, DB: DrawingBackend>(
     x: (f64, f64),
     y: (f64, f64),
 ) -> Result<Chart<'a, DB>, DrawingAreaErrorKind<DB::ErrorType>> {
+    cartesian_with(area, look, x, y, look.px(44.0), look.px(58.0))
+}
+
+/// The same with the label areas given: `below` pixels under the plot for
+/// the x axis, `beside` pixels left of it for the y axis.
+pub fn cartesian_with<'a, DB: DrawingBackend>(
+    area: &'a DrawingArea<DB, Shift>,
+    look: &Look,
+    x: (f64, f64),
+    y: (f64, f64),
+    below: i32,
+    beside: i32,
+) -> Result<Chart<'a, DB>, DrawingAreaErrorKind<DB::ErrorType>> {
     let (x0, x1) = sane_range(x);
     let (y0, y1) = sane_range(y);
     ChartBuilder::on(area)
@@ -257,8 +317,8 @@ pub fn cartesian<'a, DB: DrawingBackend>(
         .margin_right(look.px(14.0))
         .margin_top(look.px(6.0))
         .margin_bottom(look.px(4.0))
-        .x_label_area_size(look.px(44.0))
-        .y_label_area_size(look.px(58.0))
+        .x_label_area_size(below.max(0))
+        .y_label_area_size(beside.max(0))
         .build_cartesian_2d(Clamped(RangedCoordf64::from(x0..x1)), Clamped(RangedCoordf64::from(y0..y1)))
 }
 

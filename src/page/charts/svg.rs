@@ -10,6 +10,7 @@
 //! document byte for byte.
 
 use super::prep::{DataViews, Views};
+use super::realised_errors::{self, RealisedErrorsView};
 use super::{Look, by_n, histogram, quantile, sampling, total_error, tradeoff};
 use plotters::backend::DrawingBackend;
 use plotters::coord::Shift;
@@ -83,6 +84,9 @@ pub type SvgPainter<'a> = &'a dyn Fn(&DrawingArea<FixedMetrics<'_>, Shift>, &Loo
 pub const DESIGN_SIZE: (u32, u32) = (720, 400);
 /// A data file's chart: the page gives these at least 420 pixels.
 pub const DATA_SIZE: (u32, u32) = (720, 420);
+/// The simulation check's chart: two panels of two lanes each under a
+/// legend of two rows.
+pub const SIMULATION_SIZE: (u32, u32) = (720, 440);
 
 /// Draw one chart into an SVG document of `size` pixels at pixel scale 1.
 pub fn render(size: (u32, u32), draw: SvgPainter<'_>) -> Result<String, SvgError> {
@@ -129,4 +133,10 @@ pub fn design_charts(v: &Views) -> Result<Vec<(&'static str, String)>, SvgError>
 /// The data file's two charts in order, with their names.
 pub fn data_charts(v: &DataViews) -> Result<Vec<(&'static str, String)>, SvgError> {
     DATA_CHARTS.iter().filter_map(|&id| data_chart(v, id).map(|svg| svg.map(|s| (id, s)))).collect()
+}
+
+/// The simulation check's chart (realised α and β of both rules against
+/// the limits and the model), named `realised-errors`.
+pub fn simulation_chart(v: &RealisedErrorsView) -> Result<String, SvgError> {
+    render(SIMULATION_SIZE, &|a, l| realised_errors::draw(a, v, l))
 }
