@@ -327,7 +327,7 @@ fn report_with_a_simulation_block_has_the_check() {
     for cell in [format!("α* = {}", fig(&a["alpha"])), format!("β* = {}", fig(&a["beta"])), "α_max = 0.1".into(), "β_max = 0.1".into()] {
         assert!(section.contains(&format!("<td>{cell}</td>")), "{cell}");
     }
-    for fact in ["right-skewed (gamma, skewness 1.5)", "56 in each group (112 in all)", "66 in each group (132 in all) enrolled", "<td>3000</td>", "<td>2026</td>"] {
+    for fact in ["right-skewed data (gamma, skewness 1.5)", "56 in each group (112 in all)", "66 in each group (132 in all) enrolled", "<td>3000</td>", "<td>2026</td>"] {
         assert!(section.contains(fact), "{fact}");
     }
 

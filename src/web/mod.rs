@@ -118,6 +118,7 @@ fn setup() -> Result<(), JsValue> {
     let redraw = Closure::<dyn FnMut()>::new(|| {
         STATE.with(|s| s.borrow_mut().frame_pending = false);
         redraw_charts();
+        simulation::redraw();
     });
     let redraw_fn: js_sys::Function = redraw.as_ref().unchecked_ref::<js_sys::Function>().clone();
     redraw.forget();

@@ -69,10 +69,16 @@ fn prepare() {
             format!("Complete the design first; still needed: {}.", reading.still_needed.join(", "))
         });
     }
-    let text = serde_json::to_string_pretty(&Value::Object(request_json(&reading.ask))).unwrap_or_default();
+    let mut request = request_json(&reading.ask);
+    // A finished simulation check of this design goes in, with its block,
+    // so that `tern report` on the same text draws the same data sets.
+    let checked = super::simulation::for_report();
+    if let Some((block, _)) = &checked {
+        request.insert("simulation".into(), block.clone());
+    }
+    let text = serde_json::to_string_pretty(&Value::Object(request)).unwrap_or_default();
     let part = super::datafile::report_part();
-    // The page's own simulation check is not in its report yet.
-    match report::prepare(&text, Stamp::today(today()), part.as_ref(), None) {
+    match report::prepare(&text, Stamp::today(today()), part.as_ref(), checked.as_ref().map(|(_, s)| s)) {
         Ok(p) => {
             dom::set_html("report-body", &report::html::content(&p.report));
             PREPARED.with(|s| *s.borrow_mut() = Some(p));

@@ -23,6 +23,8 @@ use super::{dom, form, listen};
 use crate::engine::request::{self, RequestError};
 use crate::engine::simulate::shape::{Kind, SHAPES, param_keys};
 use crate::engine::simulate::{Plan, Simulation, SimulationError, Tally};
+use crate::page::charts::realised_errors::{self, RealisedErrorsView};
+use crate::page::charts::svg;
 use crate::page::form::request_json;
 use serde_json::{Map, Value};
 use std::cell::{Cell, RefCell};
@@ -84,6 +86,48 @@ thread_local! {
     /// run ends inside one of their handlers, which must not be dropped
     /// while it runs.
     static RETIRED: RefCell<Vec<Slot>> = const { RefCell::new(Vec::new()) };
+    /// The chart's view of the result shown, for redrawing and saving.
+    static VIEW: RefCell<Option<RealisedErrorsView>> = const { RefCell::new(None) };
+}
+
+/// Draw the result's chart again (a resize; a new result).
+pub fn redraw() {
+    let view = VIEW.with(|v| v.borrow().clone());
+    if let Some(v) = view {
+        super::canvas::paint("chart-check", &|area, look| realised_errors::draw(area, &v, look));
+        dom::set_attr("chart-check", "aria-label", Some(&v.caption()));
+    }
+}
+
+/// Save the chart as SVG (the report's figure).
+fn save_svg() {
+    let view = VIEW.with(|v| v.borrow().clone());
+    match view.map(|v| svg::simulation_chart(&v)) {
+        Some(Ok(text)) => {
+            if dom::download("tern-chart-simulation.svg", &text, "image/svg+xml").is_err() {
+                say("The file could not be saved.");
+            }
+        }
+        Some(Err(e)) => say(&format!("The chart could not be written: {e}")),
+        None => say("Run the check first."),
+    }
+}
+
+/// The finished check for the report: the `simulation` block to add to
+/// the report's request text (so that `tern report` draws the same data
+/// sets) and the result; None while a run goes on, after a cancelled run
+/// or when the design has changed since.
+pub fn for_report() -> Option<(Value, Simulation)> {
+    if RUN.with(|r| r.borrow().is_some()) || dom::by_id("sim-stale").is_some_and(|e| !e.has_attribute("hidden")) {
+        return None;
+    }
+    LAST.with(|l| {
+        let l = l.borrow();
+        let (request, sim) = l.as_ref()?;
+        (sim.replicates_done == sim.replicates).then_some(())?;
+        let block = serde_json::from_str::<Value>(request).ok()?.get("simulation")?.clone();
+        Some((block, sim.clone()))
+    })
 }
 
 /// A refusal or a failure, in the panel's alert line.
@@ -151,6 +195,7 @@ pub fn setup() -> Result<(), JsValue> {
     on_click("sim-run", start)?;
     on_click("sim-cancel", cancel)?;
     on_click("sim-save", save)?;
+    on_click("sim-save-svg", save_svg)?;
     Ok(())
 }
 
@@ -528,7 +573,8 @@ fn progress(done: u64, total: u64) {
     dom::set_text("sim-progress-text", &format!("{pct}% of the data sets drawn"));
 }
 
-/// Write a result: the sentences and the numbers table.
+/// Write a result: the chart, its numbers, the outcome shares and the
+/// sentences.
 fn show(sim: &Simulation, closing: Option<&str>) {
     dom::set_hidden("sim-result", false);
     if let Some(list) = dom::element("ul", "") {
@@ -537,27 +583,11 @@ fn show(sim: &Simulation, closing: Option<&str>) {
         }
         dom::replace("sim-readings", Some(&list));
     }
-    let row = |name: &str, r: &crate::engine::simulate::RuleResult, alpha_model: f64, beta_model: f64| {
-        let f = |x: f64| crate::engine::evaluate::sig3(x);
-        let inc = |o: &crate::engine::simulate::Outcomes| o.inconclusive.map_or("—".to_string(), |s| f(s.share));
-        vec![
-            name.to_string(),
-            format!("{} ± {}", f(r.alpha.share), f(r.alpha.se)),
-            f(alpha_model),
-            format!("{} ± {}", f(r.beta.share), f(r.beta.se)),
-            f(beta_model),
-            inc(&r.under_h0),
-            inc(&r.under_h1),
-        ]
-    };
-    let a = &sim.analytic;
-    let rows = vec![
-        row("Threshold of least total error", &sim.threshold_rule, a.alpha, a.beta),
-        row(&format!("Conventional, p ≤ {}", crate::engine::evaluate::sig3(sim.alpha_max)), &sim.conventional_rule, a.conventional_alpha, 1.0 - a.conventional_power),
-    ];
-    let head = ["Rule", "Realised α ± SE", "Model's α", "Realised β ± SE", "Model's β", "Inconclusive under H0", "Inconclusive under θ1"];
-    let caption = format!("{} of {} data sets under each hypothesis", sim.replicates_done, sim.replicates);
-    dom::replace("sim-table", dom::text_table(&caption, &head, &rows, true).as_ref());
+    let view = realised_errors::prep(sim);
+    dom::set_html("sim-table", &realised_errors::numbers(&view).html());
+    dom::set_html("sim-shares", &realised_errors::shares(&view).html());
+    VIEW.with(|v| *v.borrow_mut() = Some(view));
+    redraw();
     dom::set_text("sim-closing", closing.unwrap_or(""));
 }
 

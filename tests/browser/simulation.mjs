@@ -112,8 +112,47 @@ async function served(browser) {
     const diff = differences(first.simulation, cli(first.request));
     check('same seed: the page gives exactly what tern simulate gives', diff.length === 0, diff.slice(0, 5).join('; '));
     const readings = await page.locator('#sim-readings').innerText();
-    check('the sentences name the shape and the limits', /right-skewed \(gamma, skewness 1\.5\)/.test(readings) && /your limit 0\.1/.test(readings), readings.slice(0, 200));
-    check('the table shows both rules', /Threshold of least total error/.test(await page.locator('#sim-table').innerText()) && /Conventional/.test(await page.locator('#sim-table').innerText()));
+    check('the sentences name the shape and the limits', /right-skewed data \(gamma, skewness 1\.5\)/.test(readings) && /your limit 0\.1/.test(readings), readings.slice(0, 200));
+    const tableText = await page.evaluate(() => document.getElementById('sim-table').textContent);
+    check('the table shows both rules', /threshold of least total error/.test(tableText) && /conventional, p ≤ 0\.1/.test(tableText), tableText.slice(0, 200));
+
+    // The chart is drawn.
+    const ink = await page.evaluate(() => {
+      const c = document.getElementById('chart-check');
+      const { data } = c.getContext('2d').getImageData(0, 0, c.width, c.height);
+      let n = 0;
+      for (let i = 0; i < data.length; i += 4) if (data[i] < 235 || data[i + 1] < 235 || data[i + 2] < 235) n += 1;
+      return n / (data.length / 4);
+    });
+    check('the realised error rates are drawn', ink > 0.02, String(ink));
+    check('the chart has an accessible name with the rates', /threshold of least total error, α, false alarms under H0: 0\.1/.test(await page.getAttribute('#chart-check', 'aria-label')), await page.getAttribute('#chart-check', 'aria-label'));
+
+    // The finished check goes into the report, as tern report draws it.
+    await page.click('#report-prepare');
+    await page.waitForSelector('#report-view:not([hidden])');
+    const reportText = await page.locator('#report-body').innerText();
+    check('the report holds the check', /Check by simulation/.test(reportText) && /right-skewed data \(gamma, skewness 1\.5\)/.test(reportText), reportText.slice(0, 120));
+    const saves = {};
+    for (const format of ['html', 'json']) {
+      const [dl] = await Promise.all([page.waitForEvent('download'), page.click(`#report-${format}`)]);
+      saves[format] = readFileSync(await dl.path(), 'utf8');
+    }
+    const reportJson = JSON.parse(saves.json);
+    const design = { ...reportJson.design, ...(reportJson.report.notes ? { notes: reportJson.report.notes } : {}) };
+    check("the report's design block carries the simulation block", design.simulation && design.simulation.seed === 2026, JSON.stringify(design.simulation));
+    const dir = mkdtempSync(join(tmpdir(), 'tern-sim-report-'));
+    try {
+      writeFileSync(join(dir, 'design.json'), JSON.stringify(design));
+      const cliHtml = execFileSync(tern, ['report', join(dir, 'design.json'), '--format', 'html'], { encoding: 'utf8' });
+      const undated = (t) => t.replace(/ on \d{4}-\d{2}-\d{2}\./g, ' on DATE.');
+      const [a, b] = [undated(cliHtml), undated(saves.html)];
+      let i = 0;
+      while (i < a.length && a[i] === b[i]) i++;
+      check("the page's report with its check equals tern report's apart from the date", a === b, `first difference at ${i}: command line "${a.slice(i - 40, i + 60)}" vs page "${b.slice(i - 40, i + 60)}"`);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+    await page.click('#report-close');
 
     // Save as JSON.
     await page.evaluate(() => document.getElementById('sim-save').scrollIntoView({ block: 'center' }));
@@ -162,6 +201,16 @@ async function served(browser) {
     await page.waitForTimeout(400);
     check('no progress after Cancel', (await page.evaluate(() => document.getElementById('sim-progress').value)) === after);
     check('Run is offered again', await page.locator('#sim-run').isEnabled());
+
+    // Resampling the example data file (step 3).
+    await page.click('#data-demo');
+    await page.waitForFunction(() => /early loading/.test(document.getElementById('datafile').innerText), null, { timeout: 10000 });
+    await page.click('#sim-shape-w-resample');
+    await page.fill('#sim-replicates', '2000');
+    await page.click('#sim-run');
+    await waitEnd(page);
+    const resampled = await last(page);
+    check('resampling the data file runs', resampled.simulation.population.startsWith('data resampled from your file') && resampled.simulation.replicates_done === 2000, resampled.simulation.population);
 
     check('no errors in the console', errors.length === 0, errors.join(' | '));
     await page.locator('#simulation').screenshot({ path: join(artifacts, 'simulation-panel.png') });

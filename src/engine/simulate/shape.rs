@@ -26,7 +26,6 @@ use crate::engine::root::{Tolerance, brent};
 use rand::RngExt;
 use rand_distr::{Beta, Binomial, Distribution, Gamma, StandardNormal, StudentT};
 use rand_xoshiro::Xoshiro256PlusPlus;
-use std::fmt::Write as _;
 
 /// What a shape draws: measurements (the mean families) or yes/no
 /// outcomes (the proportion families).
@@ -265,22 +264,20 @@ impl Population {
         })
     }
 
-    /// The shape in words, for every place a result appears.
+    /// The data the shape draws, in words, for every place a result
+    /// appears ("With right-skewed data (gamma, skewness 2) the ...").
     pub fn words(&self) -> String {
         let n = |v: f64| crate::engine::shown::Num(v).to_string();
         match self {
-            Population::Normal => "normal".into(),
-            Population::Gamma { skewness, .. } => format!("right-skewed (gamma, skewness {})", n(*skewness)),
-            Population::LogNormal { skewness, .. } => format!("right-skewed (log-normal, skewness {})", n(*skewness)),
-            Population::HeavyTailed { df, .. } => format!("heavy-tailed (scaled t with {} degrees of freedom)", n(*df)),
-            Population::Uniform => "uniform (flat, no tails)".into(),
-            Population::Contaminated { share, k } => format!("normal with {}% outliers at {} SD", n(share * 100.0), n(*k)),
+            Population::Normal => "normal data".into(),
+            Population::Gamma { skewness, .. } => format!("right-skewed data (gamma, skewness {})", n(*skewness)),
+            Population::LogNormal { skewness, .. } => format!("right-skewed data (log-normal, skewness {})", n(*skewness)),
+            Population::HeavyTailed { df, .. } => format!("heavy-tailed data (scaled t with {} degrees of freedom)", n(*df)),
+            Population::Uniform => "uniform data (flat, no tails)".into(),
+            Population::Contaminated { share, k } => format!("normal data with {}% outliers at {} SD", n(share * 100.0), n(*k)),
             Population::Resample { groups } => {
                 let sizes: Vec<String> = groups.iter().map(|g| g.len().to_string()).collect();
-                let mut s = String::from("resampled from your data (");
-                let _ = write!(s, "{} values", sizes.join(" and "));
-                s.push_str(", each group centred and shifted to the hypothesis)");
-                s
+                format!("data resampled from your file ({} values, each group centred and shifted to the hypothesis)", sizes.join(" and "))
             }
             Population::Bernoulli => "independent yes/no outcomes (binomial)".into(),
             Population::Clustered { icc, size } => {

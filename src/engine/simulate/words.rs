@@ -3,8 +3,8 @@
 //! values, the inconclusive shares, and which rule made fewer errors.
 //!
 //! A rate is "above" or "within" a limit only when it is more than two
-//! Monte Carlo standard errors from it; otherwise it is "at the limit,
-//! within simulation error".
+//! Monte Carlo standard errors from it; otherwise it is "at the limit
+//! within two standard errors".
 
 use super::{Share, Simulation, Standing};
 use crate::engine::evaluate::sig3;
@@ -14,7 +14,7 @@ fn against(share: &Share, limit: f64) -> String {
     match share.against(limit) {
         Standing::Above => format!("above your limit {}", sig3(limit)),
         Standing::Within => format!("within your limit {}", sig3(limit)),
-        Standing::AtLimit => format!("at your limit {} within simulation error (two standard errors)", sig3(limit)),
+        Standing::AtLimit => format!("at your limit {} within two standard errors", sig3(limit)),
     }
 }
 
@@ -40,7 +40,7 @@ pub(super) fn readings(sim: &Simulation) -> Vec<String> {
                 None => e.n1.to_string(),
             };
             format!(
-                "{} data sets under H0 and as many under the alternative, from a {} population; {enrol} enrolled, each lost with probability {} (planned {size}), so the analysed size varies; seed {}.",
+                "{} data sets under H0 and as many under the alternative ({}); {enrol} enrolled, each lost with probability {} (planned {size}), so the analysed size varies; seed {}.",
                 sim.replicates_done,
                 sim.population,
                 sig3(q),
@@ -48,7 +48,7 @@ pub(super) fn readings(sim: &Simulation) -> Vec<String> {
             )
         }
         _ => format!(
-            "{} data sets under H0 and as many under the alternative, from a {} population, {size}; seed {}.",
+            "{} data sets under H0 and as many under the alternative ({}), {size}; seed {}.",
             sim.replicates_done, sim.population, sim.seed
         ),
     };
@@ -56,7 +56,7 @@ pub(super) fn readings(sim: &Simulation) -> Vec<String> {
     let t = &sim.threshold_rule;
     let a = &sim.analytic;
     out.push(format!(
-        "With {} data the threshold rule's false-alarm rate (realised α) is {}, {}; the model gives α* = {}.",
+        "With {} the threshold rule's false-alarm rate (realised α) is {}, {}; the model gives α* = {}.",
         sim.population,
         rate(&t.alpha),
         against(&t.alpha, sim.alpha_max),
@@ -86,7 +86,7 @@ pub(super) fn readings(sim: &Simulation) -> Vec<String> {
     }
     let c = &sim.conventional_rule;
     out.push(format!(
-        "The conventional rule (reject when p ≤ {}): realised α = {}, {} (the model gives {}); realised β = {}, {} (the model gives {}).",
+        "The conventional rule (reject when p ≤ {}): realised α = {}, {}, where the model gives {}; realised β = {}, {}, where the model gives {}.",
         sig3(sim.alpha_max),
         rate(&c.alpha),
         against(&c.alpha, sim.alpha_max),

@@ -146,6 +146,20 @@ pub fn prep(sim: &Simulation) -> RealisedErrorsView {
     RealisedErrorsView { panels, shares, drawn: sim.replicates_done, replicates: sim.replicates }
 }
 
+impl RealisedErrorsView {
+    /// The chart in one sentence, for its accessible name.
+    pub fn caption(&self) -> String {
+        let mut parts = Vec::new();
+        for p in &self.panels {
+            for r in &p.rows {
+                let value = r.realised.map_or("not drawn yet".to_string(), |(x, _)| prob(x));
+                parts.push(format!("{}, {}: {} ({})", r.rule, p.rate, value, standing_words(r.standing)));
+            }
+        }
+        format!("Realised error rates of {} of {} data sets per hypothesis: {}.", self.drawn, self.replicates, parts.join("; "))
+    }
+}
+
 /// Where a rate stands, in the chart's words.
 fn standing_words(s: Option<Standing>) -> &'static str {
     match s {
