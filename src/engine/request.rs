@@ -12,7 +12,7 @@ use super::design::{Design, DesignError, DesignSpec, Family};
 use super::family;
 use super::evaluate::{EvaluateError, Evaluation, evaluate};
 use super::inverse::{SmallestEffect, smallest_effect};
-use super::sample_size::{GroupSizes, SampleSize, sample_size};
+use super::sample_size::{self, Found, GroupSizes, SampleSize, sample_size};
 use super::context::{self, Context};
 use super::simulate::{self, Plan, Simulation, SimulationError};
 use super::threshold::Alternative;
@@ -318,8 +318,12 @@ pub fn answer(req: &Request) -> Result<Answer, RequestError> {
 
 /// Answer a request whose data, if any, are already decided.
 fn answer_with(req: &Request, decision: Option<Decision>) -> Result<Answer, RequestError> {
+    answer_sized(req, decision, sample_size(&req.design)?)
+}
+
+/// [`answer_with`] with the sample size already known (or pending).
+fn answer_sized(req: &Request, decision: Option<Decision>, sample_size: SampleSize) -> Result<Answer, RequestError> {
     let design = &req.design;
-    let sample_size = sample_size(design)?;
     let at_n = match (req.n, decision.as_ref(), &sample_size.at_youden) {
         (Some(n), _, _) => Some(evaluate(design, n)?),
         (None, Some(d), _) => Some(d.at_n.clone()),
@@ -377,6 +381,19 @@ pub struct Check {
     pub smallest_effect: SmallestEffect,
 }
 
+/// How a reply's sample-size search runs.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Search {
+    /// All of it, here.
+    Here,
+    /// At most this much work here (`sample_size::QUICK_WORK`); past it the
+    /// answer's sample size is pending and the caller runs
+    /// `sample_size::search` elsewhere.
+    Quick(usize),
+    /// Already run elsewhere for this very design.
+    Done(Found),
+}
+
 /// Everything the page shows for one [`Ask`], with every refusal at once.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Reply {
@@ -395,6 +412,11 @@ pub struct Reply {
 /// without them, and the charts follow the data's n when data decide
 /// (else the typed n, else the Youden n).
 pub fn reply(ask: &Ask) -> Reply {
+    reply_searching(ask, Search::Here)
+}
+
+/// [`reply`] with the sample-size search run as `search` says.
+pub fn reply_searching(ask: &Ask, search: Search) -> Reply {
     let mut errors = Vec::new();
     let design = match Design::new(&ask.spec) {
         Ok(d) => d,
@@ -410,7 +432,13 @@ pub fn reply(ask: &Ask) -> Reply {
         }
     }
     let req = Request { design, n: if decision.is_some() { None } else { n }, data: None, curves: true, context: ask.context.clone(), interval_level: ask.interval_level, simulation: None };
-    let answer = match answer_with(&req, decision) {
+    let sized = match search {
+        Search::Here => sample_size(&design),
+        Search::Quick(work) => sample_size::search(&design, Some(work), &mut |_| {})
+            .and_then(|f| f.map_or_else(|| Ok(SampleSize::pending(&design)), |f| sample_size::finish(&design, &f))),
+        Search::Done(found) => sample_size::finish(&design, &found),
+    };
+    let answer = match sized.map_err(RequestError::from).and_then(|s| answer_sized(&req, decision, s)) {
         Ok(a) => a,
         Err(e) => {
             errors.push(e);

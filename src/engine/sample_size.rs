@@ -17,7 +17,7 @@ use super::threshold::DiscreteCut;
 use std::cell::Cell;
 use super::model::Sampling;
 use super::threshold::{ContinuousCut, Errors};
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
 /// The first n a guided search probes: large enough that the t families'
 /// heavy tails at tiny df do not distort the √n extrapolation.
@@ -84,6 +84,30 @@ pub struct SampleSize {
     /// threshold solves ([`DISCRETE_SOLVE_BUDGET`]) ran out; no smaller n is
     /// conclusive. `None`: the search ran its course.
     pub stopped_at: Option<u64>,
+    /// The search goes on elsewhere (the page's worker): nothing above is
+    /// found yet. Never set in the command line's answers.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub pending: bool,
+}
+
+impl SampleSize {
+    /// The answer while the search goes on elsewhere.
+    pub fn pending(design: &Design) -> SampleSize {
+        let max = if design.family.discrete() { N_MAX_DISCRETE } else { N_MAX }.min(design.n_max());
+        SampleSize {
+            youden: None,
+            searched_up_to: max,
+            stable_from: None,
+            checked_to: None,
+            conventional: None,
+            at_youden: None,
+            balancing_weight: None,
+            notes: Vec::new(),
+            solves: 0,
+            stopped_at: None,
+            pending: true,
+        }
+    }
 }
 
 fn sizes(design: &Design, n1: u64) -> GroupSizes {
@@ -354,8 +378,53 @@ fn randomized_bound(design: &Design, lo: u64, max: u64, direct_miss: bool) -> Re
     Ok(smallest_monotone(lo, max, ok)?.map(|n| n.saturating_sub(2).max(lo)))
 }
 
-/// Find the Youden and the conventional sample sizes.
+/// What the scans found: the expensive part of the search, as plain
+/// numbers, so that a Web Worker can run it and hand it to the page, which
+/// then finishes the answer with a few solves ([`finish`]).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+pub struct Found {
+    pub youden: Option<u64>,
+    pub stable_from: Option<u64>,
+    pub checked_to: Option<u64>,
+    pub conventional: Option<u64>,
+    /// Where the Youden scan or the stable check ran out of its budget.
+    pub stopped_at: Option<u64>,
+    /// Where the conventional scan ran out of its budget.
+    pub conventional_stopped_at: Option<u64>,
+    pub solves: usize,
+    /// The largest n searched.
+    pub max: u64,
+}
+
+/// Where a search stands, for a progress bar: the stage in words, the n
+/// reached and, where the stage's length is known, the share done.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Progress {
+    pub stage: &'static str,
+    pub n: u64,
+    pub fraction: Option<f64>,
+}
+
+/// Work a quick search (the page's, on its main thread) may do before it
+/// hands the search to a worker: this many solves (weighted as in
+/// [`DISCRETE_SOLVE_BUDGET`]) and as many conventional steps, a few tens
+/// of milliseconds.
+pub const QUICK_WORK: usize = 200;
+
+/// The smallest conclusive n and the conventional n: [`search`] then
+/// [`finish`].
 pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
+    match search(design, None, &mut |_| {})? {
+        Some(found) => finish(design, &found),
+        // Without a quick budget the search always finishes.
+        None => Err(EvaluateError::Dist(super::dist::DistError::Parameter { name: "search", value: f64::NAN, rule: "run to its end" })),
+    }
+}
+
+/// The scans of the sample-size search. With `quick` = Some(work), None
+/// when the search would do more than that (the caller runs it again
+/// elsewhere, without); `progress` hears where it stands, at every n.
+pub fn search(design: &Design, quick: Option<usize>, progress: &mut dyn FnMut(Progress)) -> Result<Option<Found>, EvaluateError> {
     let mut solves = 0usize;
     let lo = design.n_min();
     let discrete = design.family.discrete();
@@ -372,6 +441,10 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
             Some(from) => {
                 let mut found = None;
                 for n in from..=max {
+                    if quick.is_some_and(|q| solves >= q) {
+                        return Ok(None);
+                    }
+                    progress(Progress { stage: "finding the smallest conclusive n", n, fraction: None });
                     if solves >= DISCRETE_SOLVE_BUDGET {
                         stopped_at = Some(n);
                         break;
@@ -394,6 +467,10 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         let mut last_fail = None;
         let mut checked = bound;
         for n in first..=bound {
+            if quick.is_some_and(|q| solves >= q) {
+                return Ok(None);
+            }
+            progress(Progress { stage: "checking that every larger n stays conclusive", n, fraction: Some((n - first) as f64 / (bound - first).max(1) as f64) });
             // The budget may cut the check short: the bound reported is
             // then the last n checked, and a note says so.
             if solves >= DISCRETE_SOLVE_BUDGET && n > first {
@@ -414,7 +491,20 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     let mut conventional_stopped_at = None;
     let conventional = if discrete {
         let last = scan_from.saturating_add(CONVENTIONAL_SCAN_BUDGET - 1).min(max);
-        let found = smallest_scan(scan_from, last, conv_ok)?;
+        let mut steps = 0usize;
+        let mut out_of_time = false;
+        let found = smallest_scan(scan_from, last, |n| {
+            steps += 1;
+            if quick.is_some_and(|q| steps > q) {
+                out_of_time = true;
+                return Ok(true);
+            }
+            progress(Progress { stage: "finding the conventional n", n, fraction: None });
+            conv_ok(n)
+        })?;
+        if out_of_time {
+            return Ok(None);
+        }
         if found.is_none() && last < max {
             conventional_stopped_at = Some(last + 1);
         }
@@ -422,6 +512,15 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     } else {
         smallest_guided(lo, max, GUIDED_START, |n| conventional_probe(design, n))?
     };
+    Ok(Some(Found { youden, stable_from, checked_to, conventional, stopped_at, conventional_stopped_at, solves, max }))
+}
+
+/// The answer from what the scans found: the design at the Youden n, the
+/// conventional errors, the balancing weight and the notes (a few solves).
+pub fn finish(design: &Design, found: &Found) -> Result<SampleSize, EvaluateError> {
+    let Found { youden, stable_from, checked_to, conventional, stopped_at, conventional_stopped_at, mut solves, max } = *found;
+    let discrete = design.family.discrete();
+    let target = 1.0 - design.beta_max;
     let balancing_weight = match conventional {
         Some(n) if !discrete => balancing_weight(design, n)?,
         _ => None,
@@ -470,6 +569,7 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
         notes,
         solves,
         stopped_at,
+        pending: false,
     })
 }
 

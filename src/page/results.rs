@@ -113,6 +113,11 @@ pub fn size_card(ans: &Answer, unit: &str) -> SizeCard {
     let fam = ans.design.family;
     let ss = &ans.sample_size;
     let (state, headline, detail) = match (&ss.youden, &ss.at_youden) {
+        _ if ss.pending => (
+            "searching",
+            "Searching for the sample size…".to_string(),
+            "Exact counts are checked one n at a time, and this design needs many: the search runs in the background, so the page stays usable. Where it stands shows below; Stop ends it.".to_string(),
+        ),
         (Some(g), Some(at)) => (
             "found",
             format!("n = {}", sizes(g.n1, g.n2)),

@@ -16,8 +16,10 @@ mod offline;
 mod page_canvas;
 mod report;
 mod saved;
+mod search;
 mod simulation;
 mod view;
+mod workers;
 
 use crate::engine::{request, simulate};
 use crate::page::charts::prep::{self, Views};
@@ -109,6 +111,9 @@ fn setup() -> Result<(), JsValue> {
             }
         })?;
     }
+    if let Some(b) = dom::by_id("size-search-stop") {
+        listen(&b, "click", |_| search::stop())?;
+    }
     if let Some(b) = dom::by_id("load-demo") {
         listen(&b, "click", |_| {
             demo::load_demo();
@@ -168,7 +173,7 @@ fn schedule_redraw() {
 }
 
 /// Read the form, ask the engine once, show everything. Runs on every input.
-fn recompute() {
+pub(crate) fn recompute() {
     let t0 = dom::now_ms();
     dom::set_hidden("page-alert", true);
     // The data file's figures follow the family before the form is read.
@@ -177,6 +182,7 @@ fn recompute() {
     form::show_fields(reading.family, &reading.unit);
     let mut messages = reading.messages.clone();
     if !reading.design_ready() {
+        search::after_reply(&reading.ask, false);
         form::show_messages(&messages);
         view::show_incomplete(&reading.still_needed);
         set_views(None);
@@ -186,7 +192,8 @@ fn recompute() {
     }
     // One call: a refused n or refused data come back beside an answer
     // computed without them.
-    let reply = request::reply(&reading.ask);
+    let reply = request::reply_searching(&reading.ask, search::mode(&reading.ask));
+    search::after_reply(&reading.ask, reply.answer.as_ref().is_some_and(|a| a.sample_size.pending));
     for err in &reply.errors {
         let m = page_form::engine_message(reading.family, err);
         if !messages.contains(&m) {
@@ -285,4 +292,27 @@ pub fn tern_simulate_blocks(request: &str, groups: &str, first: f64, last: f64) 
     let plan = request::simulation_plan(&req, groups).map_err(|e| JsValue::from_str(&e.to_string()))?;
     let tally = plan.run_blocks(first.max(0.0) as u64..last.max(0.0) as u64);
     serde_wasm_bindgen::to_value(&tally).map_err(|e| JsValue::from_str(&e.to_string()))
+}
+
+/// A worker's sample-size search (`web::search`): the whole search of the
+/// request's design (`sample_size::search`), telling `progress` where it
+/// stands (every 64th n: the worker passes on one in 100 ms), as the
+/// findings, a JavaScript object.
+#[wasm_bindgen]
+pub fn tern_search(request: &str, progress: &js_sys::Function) -> Result<JsValue, JsValue> {
+    let req = request::parse(request).map_err(|e| JsValue::from_str(&e.to_string()))?;
+    let mut count = 0u32;
+    let mut tell = |p: crate::engine::sample_size::Progress| {
+        count = count.wrapping_add(1);
+        if count % 64 == 1
+            && let Ok(v) = serde_wasm_bindgen::to_value(&p)
+        {
+            let _ = progress.call1(&JsValue::NULL, &v);
+        }
+    };
+    match crate::engine::sample_size::search(&req.design, None, &mut tell) {
+        Ok(Some(found)) => serde_wasm_bindgen::to_value(&found).map_err(|e| JsValue::from_str(&e.to_string())),
+        Ok(None) => Err(JsValue::from_str("the search did not finish")),
+        Err(e) => Err(JsValue::from_str(&e.to_string())),
+    }
 }

@@ -4,15 +4,11 @@
 //! the page's own module, with a progress bar, a cancel button and the
 //! partial result as it comes.
 //!
-//! The work is shared out in chunks of whole blocks (`simulate::BLOCK`),
+//! The workers are `web::workers`'. The work is shared out in chunks of whole blocks (`simulate::BLOCK`),
 //! each chunk sized to take about [`CHUNK_MS`]; the tallies are merged in
 //! block order, so the numbers are those of `tern simulate` with the same
 //! seed, however many workers ran. Tallies cross as JavaScript objects
-//! (structured clone), so every number arrives exactly. The boot script leaves the compiled
-//! module in `globalThis.ternModule` and the worker script's URL in
-//! `globalThis.ternWorkerUrl` (a module worker file of the served edition;
-//! a Blob URL of the one-file edition's inline worker source, a classic
-//! worker as `globalThis.ternWorkerType` says).
+//! (structured clone), so every number arrives exactly.
 //!
 //! Architecture invariant: the figures and sentences are the engine's
 //! (`Plan::result`); no borrow of the run's state is held across an engine
@@ -31,7 +27,7 @@ use std::cell::{Cell, RefCell};
 use std::collections::BTreeMap;
 use wasm_bindgen::JsCast;
 use wasm_bindgen::prelude::*;
-use web_sys::{MessageEvent, Worker, WorkerOptions, WorkerType};
+use super::workers::{self, Spawned};
 
 /// The most workers a check starts.
 const WORKERS_MAX: u32 = 4;
@@ -44,11 +40,9 @@ const RENDER_MS: f64 = 150.0;
 const CHUNK_MAX: u64 = 64;
 
 struct Slot {
-    worker: Worker,
+    worker: Spawned,
     /// Blocks per chunk, adapted to the worker's speed.
     chunk: u64,
-    _on_message: Closure<dyn FnMut(MessageEvent)>,
-    _on_error: Closure<dyn FnMut(web_sys::Event)>,
 }
 
 struct Run {
@@ -381,14 +375,6 @@ fn start() {
         Err(e) => return place(&e),
     };
     let groups_text = groups.map(|g| serde_json::to_string(&g).unwrap_or_default()).unwrap_or_default();
-    let global = js_sys::global();
-    let module = js_sys::Reflect::get(&global, &"ternModule".into()).ok().filter(|m| !m.is_undefined());
-    let url = js_sys::Reflect::get(&global, &"ternWorkerUrl".into()).ok().and_then(|u| u.as_string());
-    let classic = js_sys::Reflect::get(&global, &"ternWorkerType".into()).ok().and_then(|u| u.as_string()).as_deref() == Some("classic");
-    let (Some(module), Some(url)) = (module, url) else {
-        say("This copy of the page cannot start the check's background workers (its boot script did not provide them); use tern simulate on the command line.");
-        return;
-    };
     let total = plan.blocks();
     let cores = dom::window().map_or(2.0, |w| w.navigator().hardware_concurrency());
     let count = (cores.clamp(1.0, f64::from(WORKERS_MAX)) as u64).min(total).max(1) as usize;
@@ -398,14 +384,13 @@ fn start() {
     });
     let mut slots = Vec::new();
     for i in 0..count {
-        match new_worker(&url, classic, &module, id, i) {
-            Ok(s) => slots.push(s),
-            Err(e) => {
+        match workers::spawn(move |data| received(id, i, &data), move |why| fail(id, &format!("a background worker stopped ({why})"))) {
+            Ok(worker) => slots.push(Slot { worker, chunk: 1 }),
+            Err(why) => {
                 for s in &slots {
-                    s.worker.terminate();
+                    s.worker.stop();
                 }
-                web_sys::console::error_1(&e);
-                say("The check could not start its background workers; reload the page to try again.");
+                say(&format!("The check could not start: {why}. The command line's tern simulate does the same work."));
                 return;
             }
         }
@@ -439,26 +424,6 @@ fn start() {
     }
 }
 
-fn new_worker(url: &str, classic: bool, module: &JsValue, id: u32, index: usize) -> Result<Slot, JsValue> {
-    let options = WorkerOptions::new();
-    options.set_type(if classic { WorkerType::Classic } else { WorkerType::Module });
-    let worker = Worker::new_with_options(url, &options)?;
-    let on_message = Closure::<dyn FnMut(MessageEvent)>::new(move |e: MessageEvent| received(id, index, &e.data()));
-    worker.set_onmessage(Some(on_message.as_ref().unchecked_ref()));
-    // A worker that cannot load sends a plain Event, one that throws an
-    // ErrorEvent with a message.
-    let on_error = Closure::<dyn FnMut(web_sys::Event)>::new(move |e: web_sys::Event| {
-        e.prevent_default();
-        let why = js_sys::Reflect::get(&e, &"message".into()).ok().and_then(|m| m.as_string()).unwrap_or_else(|| "it could not start".into());
-        fail(id, &format!("a background worker stopped ({why})"));
-    });
-    worker.set_onerror(Some(on_error.as_ref().unchecked_ref()));
-    let init = js_sys::Object::new();
-    js_sys::Reflect::set(&init, &"module".into(), module)?;
-    worker.post_message(&init)?;
-    Ok(Slot { worker, chunk: 1, _on_message: on_message, _on_error: on_error })
-}
-
 /// Give worker `index` its next chunk, if blocks are left.
 fn assign(id: u32, index: usize) {
     let job = RUN.with(|r| {
@@ -477,7 +442,7 @@ fn assign(id: u32, index: usize) {
             && set("last", JsValue::from(last as f64))
             && set("request", JsValue::from_str(&run.request))
             && set("groups", JsValue::from_str(&run.groups));
-        ok.then(|| (run.slots[index].worker.clone(), msg))
+        ok.then(|| (run.slots[index].worker.worker.clone(), msg))
     });
     if let Some((worker, msg)) = job
         && worker.post_message(&msg).is_err()
@@ -489,7 +454,7 @@ fn assign(id: u32, index: usize) {
 /// A worker's answer: a chunk's tally (merged, and the worker given the
 /// next chunk) or its error.
 fn received(id: u32, index: usize, data: &JsValue) {
-    let get = |k: &str| js_sys::Reflect::get(data, &k.into()).ok().filter(|v| !v.is_undefined());
+    let get = |k: &str| workers::field(data, k);
     if get("job").and_then(|j| j.as_f64()) != Some(f64::from(id)) {
         return;
     }
@@ -601,7 +566,7 @@ fn finish(id: u32, closing: Option<&str>) {
     });
     let Some(mut run) = run else { return };
     for s in &run.slots {
-        s.worker.terminate();
+        s.worker.stop();
     }
     let slots = std::mem::take(&mut run.slots);
     dom::set_hidden("sim-cancel", true);
