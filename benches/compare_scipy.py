@@ -20,11 +20,22 @@ lists identical):
 - search/mean_t_d0.3/statsmodels_conventional: statsmodels
   TTestPower().solve_power for the conventional n (level 0.05, power 0.8),
   a second reference; it answers a different (easier) question.
+- simulate/two_means_pooled_n100_100k: the simulation check of the pooled
+  two-sample t (d = 0.5, greater, n = 100 per group, normal population),
+  100,000 data sets under each hypothesis, vectorised with NumPy's
+  default_rng in chunks of 10,000 data sets (10,000 x 100 draws per group,
+  so memory stays bounded): the pooled t statistic of each data set, the
+  threshold comparison with the Youden critical value (solved once per
+  call, as above) and the conventional rule's p-value from
+  scipy.stats.t.sf compared with alpha_max. Its answers are Monte Carlo
+  shares, drawn from another generator than Tern's: they agree with
+  Tern's within their sampling error, not digit for digit.
 
 Timing: timeit; for each item the loop count is chosen by autorange
 (>= --min-time seconds per repeat) and --repeat repeats are taken; the
 reported figure is the median repeat divided by the loop count (the minimum
-is reported too).
+is reported too). The simulation item, over half a second per call, takes
+at most LONG_REPEAT repeats of one call.
 
 Usage: python3 benches/compare_scipy.py [--json OUT.json] [--repeat R]
                                         [--min-time S]
@@ -218,6 +229,39 @@ def statsmodels_conventional(d=0.3):
                                     power=1 - BETA_MAX, alternative="larger")
 
 
+# ---------------------------------------------------------------- simulation
+
+# The request of benches/shared/cases.rs (`SIMULATION`): two_means_pooled,
+# greater, d = 0.5 (theta0 = 0, theta1 = d, sigma = 1), n = 100 per group,
+# normal population, 100,000 data sets under each hypothesis.
+SIMULATION = {"item": "simulate/two_means_pooled_n100_100k", "d": 0.5, "n": 100,
+              "replicates": 100_000, "chunk": 10_000, "seed": 1}
+LONG_REPEAT = 3  # repeats at most for the simulation item (over half a second per call)
+
+
+def simulate_pooled(d, n, replicates, chunk, seed):
+    """Draw `replicates` data sets under H0 (group 1 mean 0) and under
+    theta1 (group 1 mean d), group 2 mean 0, SD 1, n per group; count the
+    threshold rule's and the conventional rule's rejections."""
+    c, _, _ = solve_greater(*two_means_pooled(d, n))  # the Youden c*, once
+    df = 2 * n - 2
+    rng = np.random.default_rng(seed)
+    counts = {}
+    for hypothesis, mean1 in (("h0", 0.0), ("h1", d)):
+        reject = conventional = 0
+        for start in range(0, replicates, chunk):
+            m = min(chunk, replicates - start)
+            x1 = rng.standard_normal((m, n))
+            x2 = rng.standard_normal((m, n))
+            x1 += mean1
+            sp2 = (x1.var(axis=1, ddof=1) + x2.var(axis=1, ddof=1)) / 2.0  # equal n
+            stat = (x1.mean(axis=1) - x2.mean(axis=1)) / np.sqrt(sp2 * (2.0 / n))
+            reject += int(np.count_nonzero(stat > c))
+            conventional += int(np.count_nonzero(t.sf(stat, df) <= ALPHA_MAX))
+        counts[hypothesis] = (reject, conventional)
+    return c, counts
+
+
 # ---------------------------------------------------------------- timing
 
 def time_call(fn, repeat, min_time):
@@ -248,10 +292,10 @@ def main():
 
     results = []
 
-    def record(item, fn, check):
-        med, best, number = time_call(fn, args.repeat, args.min_time)
-        results.append({"item": item, "us": med, "us_min": best, "loops": number, "repeats": args.repeat, "check": check})
-        print(f"{item:<48} {med:12.3f} µs  (min {best:.3f}, {number} loops x {args.repeat})  {check}", flush=True)
+    def record(item, fn, check, repeat=args.repeat):
+        med, best, number = time_call(fn, repeat, args.min_time)
+        results.append({"item": item, "us": med, "us_min": best, "loops": number, "repeats": repeat, "check": check})
+        print(f"{item:<48} {med:12.3f} µs  (min {best:.3f}, {number} loops x {repeat})  {check}", flush=True)
 
     v = versions()
     print("compare_scipy: " + ", ".join(f"{k} {val}" for k, val in v.items()), flush=True)
@@ -271,6 +315,14 @@ def main():
     n_conv = statsmodels_conventional()
     record("search/mean_t_d0.3/statsmodels_conventional", statsmodels_conventional,
            f"n={math.ceil(n_conv)} (solve_power {n_conv:.4f})")
+
+    sim = {k: v for k, v in SIMULATION.items() if k != "item"}
+    c, counts = simulate_pooled(**sim)
+    r = sim["replicates"]
+    (rej0, conv0), (rej1, conv1) = counts["h0"], counts["h1"]
+    check = (f"n={sim['n']}\treplicates={r}\tc={c:.9f}\talpha_share={rej0 / r:.6f}\tbeta_share={1 - rej1 / r:.6f}"
+             f"\tconventional_alpha_share={conv0 / r:.6f}\tconventional_beta_share={1 - conv1 / r:.6f}")
+    record(SIMULATION["item"], lambda: simulate_pooled(**sim), check, repeat=min(args.repeat, LONG_REPEAT))
 
     if args.json:
         with open(args.json, "w", encoding="utf-8") as fh:

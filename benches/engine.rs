@@ -11,6 +11,13 @@
 //! - `search/mean_t_d0.3`: the sample-size search (Youden n and the
 //!   conventional n) for the one-sample t, d = 0.3, α_max = 0.05,
 //!   β_max = 0.2, alternative greater.
+//! - `simulate/two_means_pooled_n100_100k`: the simulation check
+//!   (`request::simulation_plan`, `Plan::run`, one thread) of the pooled
+//!   two-sample t, d = 0.5, α_max = 0.05, β_max = 0.2, alternative greater,
+//!   n = 100 per group, normal population, 100,000 data sets under each
+//!   hypothesis, seed 1. d = 0.5 (the design of `solve/two_means_pooled`)
+//!   is conclusive at n = 100, so every data set goes through the
+//!   threshold comparison, not straight to inconclusive.
 //!
 //! The designs and points are mirrored in `benches/compare_scipy.py`; keep
 //! the two lists identical. Before measuring, each solve prints one
@@ -19,23 +26,26 @@
 //!
 //! With `BENCH_QUICK` set (`scripts/bench --quick`), every group warms up
 //! for 0.1 s and measures for 0.2 s: a check that the benches and the
-//! script run, with rough figures.
+//! script run, with rough figures. The `simulate` group still takes its
+//! 10 samples of one iteration each (criterion's smallest sample size),
+//! about 3 s.
 //!
 //! `std::hint::black_box` is used: it is what criterion 0.8's own (now
 //! deprecated) `criterion::black_box` forwards to.
 
-use criterion::{Criterion, criterion_group, criterion_main};
+use criterion::{Criterion, SamplingMode, criterion_group, criterion_main};
 use std::hint::black_box;
 use std::time::Duration;
 use tern::engine::design::{Design, Family};
 use tern::engine::dist::{Continuous, NoncentralT};
-use tern::engine::evaluate::{Cut, solve};
+use tern::engine::evaluate::{Cut, evaluate, solve};
+use tern::engine::request;
 use tern::engine::sample_size::sample_size;
 use tern::engine::threshold::{Alternative, ContinuousCut, DiscreteCut};
 
 #[path = "shared/cases.rs"]
 mod cases;
-use cases::{NCT_POINTS, solve_cases, spec};
+use cases::{NCT_POINTS, SIMULATION, solve_cases, spec};
 
 /// c* on the statistic's scale (the half-width for a two-sided cut, k for
 /// X ≥ k).
@@ -116,5 +126,37 @@ fn bench_search(c: &mut Criterion) {
     group.finish();
 }
 
-criterion_group!(benches, bench_nct_cdf, bench_solve, bench_search);
+fn bench_simulate(c: &mut Criterion) {
+    let name = SIMULATION.0;
+    let req = request::parse(SIMULATION.1).unwrap_or_else(|e| panic!("{name}: request: {e}"));
+    let plan = request::simulation_plan(&req, None).unwrap_or_else(|e| panic!("{name}: plan: {e}"));
+    let at = evaluate(&plan.design, plan.n1).unwrap_or_else(|e| panic!("{name}: evaluate: {e}"));
+    assert!(at.conclusive, "{name}: the design must be conclusive at n = {}", plan.n1);
+    let tally = plan.run();
+    let (h0, h1) = (tally.h0, tally.h1);
+    // Shares of data sets: α by rejecting under H0, β by not rejecting
+    // under θ1 (the threshold rule's inconclusive counts as not rejecting;
+    // none here, the design being conclusive).
+    let share = |count: u64, of: u64| count as f64 / of as f64;
+    println!(
+        "TERN_CHECK\t{name}\tn={}\treplicates={}\tc={:.9}\talpha_share={:.6}\tbeta_share={:.6}\tconventional_alpha_share={:.6}\tconventional_beta_share={:.6}",
+        plan.n1,
+        plan.replicates,
+        cut_value(&at.cut),
+        share(h0.reject, h0.replicates),
+        share(h1.replicates - h1.reject, h1.replicates),
+        share(h0.conventional_reject, h0.replicates),
+        share(h1.replicates - h1.conventional_reject, h1.replicates),
+    );
+    let mut group = c.benchmark_group("simulate");
+    // One iteration takes a few tenths of a second: 10 samples (criterion's
+    // least) of the same iteration count each.
+    let (warm_up, measurement) = times(Duration::from_secs(1), Duration::from_secs(5));
+    group.warm_up_time(warm_up).measurement_time(measurement).sample_size(10).sampling_mode(SamplingMode::Flat);
+    let id = name.split('/').nth(1).expect("group/id");
+    group.bench_function(id, |b| b.iter(|| black_box(&plan).run()));
+    group.finish();
+}
+
+criterion_group!(benches, bench_nct_cdf, bench_solve, bench_search, bench_simulate);
 criterion_main!(benches);

@@ -6,19 +6,21 @@
 //!     target/release/examples/bench_counts ITEM REPEATS
 //!
 //! ITEM is a benchmark id (`nct_cdf/df29_ncp1.64_x1.7`, `solve/mean_t`,
-//! `solve_two_sided/mean_t`, `search/mean_t_d0.3`, ...); the instructions
-//! per call are (total at REPEATS − total at 0) / REPEATS.
+//! `solve_two_sided/mean_t`, `search/mean_t_d0.3`,
+//! `simulate/two_means_pooled_n100_100k`, ...); the instructions per call
+//! are (total at REPEATS − total at 0) / REPEATS.
 
 use std::hint::black_box;
 use tern::engine::design::{Design, Family};
 use tern::engine::dist::{Continuous, NoncentralT};
 use tern::engine::evaluate::solve;
+use tern::engine::request;
 use tern::engine::sample_size::sample_size;
 use tern::engine::threshold::Alternative;
 
 #[path = "../benches/shared/cases.rs"]
 mod cases;
-use cases::{NCT_POINTS, solve_cases, spec};
+use cases::{NCT_POINTS, SIMULATION, solve_cases, spec};
 
 fn main() {
     let args: Vec<String> = std::env::args().collect();
@@ -44,6 +46,13 @@ fn main() {
         let design = Design::new(&spec(Family::MeanT, Alternative::Greater).with("d", 0.3)).expect("valid design");
         for _ in 0..repeats {
             black_box(sample_size(black_box(&design)).expect("search"));
+        }
+    }
+    if item == SIMULATION.0 {
+        let req = request::parse(SIMULATION.1).expect("valid request");
+        let plan = request::simulation_plan(&req, None).expect("valid simulation");
+        for _ in 0..repeats {
+            black_box(black_box(&plan).run());
         }
     }
 }

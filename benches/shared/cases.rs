@@ -11,6 +11,15 @@ pub const NCT_POINTS: [(&str, f64, f64, f64); 3] = [
     ("df1e4_ncp5_x4", 1e4, 5.0, 4.0),
 ];
 
+/// The simulation check's benchmark id and request (`request::parse`).
+/// Mirrored in compare_scipy.py (`SIMULATION`).
+pub const SIMULATION: (&str, &str) = (
+    "simulate/two_means_pooled_n100_100k",
+    r#"{"family": "two_means_pooled", "alternative": "greater", "d": 0.5,
+        "alpha_max": 0.05, "beta_max": 0.2, "n": 100,
+        "simulation": {"shape": "normal", "replicates": 100000, "seed": 1}}"#,
+);
+
 pub const ALPHA_MAX: f64 = 0.05;
 pub const BETA_MAX: f64 = 0.2;
 
