@@ -219,6 +219,54 @@ async function served(browser) {
   }
 }
 
+// A long sample-size search (exact binomial, two-sided, p0 = .5 against
+// .51: its Youden n is 30,934, tests/reference/exact_large.json) runs in
+// a worker: the page answers each keystroke while it runs, shows where it
+// stands, and Stop ends it.
+async function search(browser) {
+  const { child, url } = await startServer();
+  try {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+    const errors = [];
+    page.on('pageerror', (e) => errors.push(String(e)));
+    page.on('console', (m) => { if (m.type() === 'error') errors.push(m.text()); });
+    await page.goto(url);
+    await page.waitForFunction(() => document.getElementById('app').dataset.ready === 'true');
+    await page.click('#new-design');
+    await page.click('label:has(input[value="proportion_exact"])');
+    await page.click('label:has(input[value="two_sided"])');
+    for (const [id, v] of [['#f-p0', '0.5'], ['#f-alpha_max', '0.05'], ['#f-beta_max', '0.2']]) await page.fill(id, v);
+    const started = Date.now();
+    await page.fill('#f-p_alt', '0.51');
+    const answered = Date.now() - started;
+    const card = () => page.evaluate(() => [document.getElementById('size-card').dataset.state, document.getElementById('size-search-text').innerText]);
+    check('search: the long search goes to a worker', (await card())[0] === 'searching', JSON.stringify(await card()));
+    await page.waitForFunction(() => /: n = \d+/.test(document.getElementById('size-search-text').innerText), null, { timeout: 20000 });
+    check('search: where it stands is shown', /n = \d+/.test((await card())[1]), (await card())[1]);
+    const delays = [];
+    await page.click('#f-unit');
+    await page.evaluate(() => { window.searchKeys = []; document.getElementById('f-unit').addEventListener('keydown', (e) => window.searchKeys.push(performance.now() - e.timeStamp)); });
+    await page.keyboard.type('patients', { delay: 20 });
+    delays.push(...(await page.evaluate(() => window.searchKeys)));
+    check('search: typing is answered while it runs (worst key delay under 250 ms)', Math.max(...delays) < 250, Math.max(...delays).toFixed(1));
+    await page.waitForFunction(() => document.getElementById('size-card').dataset.state === 'found', null, { timeout: 60000 });
+    const took = Date.now() - started;
+    const headline = await page.locator('#size-headline').innerText();
+    check('search: the worker finds n = 30934', /30[ ,\u202f]?934/.test(headline), headline);
+    console.log(`figure: exact two-sided search p0 = .5 against .51 in a worker: the keystroke answered in ${answered} ms, the answer in ${(took / 1000).toFixed(1)} s; worst key delay meanwhile ${Math.max(...delays).toFixed(1)} ms`);
+    // Stop.
+    await page.fill('#f-p_alt', '0.509');
+    await page.waitForFunction(() => document.getElementById('size-card').dataset.state === 'searching', null, { timeout: 5000 });
+    await page.click('#size-search-stop');
+    check('search: Stop ends it and says so', /Stopped/.test((await card())[1]), (await card())[1]);
+    await page.fill('#f-p_alt', '0.51');
+    check('search: findings are kept for their design', (await card())[0] === 'found');
+    check('search: no errors in the console', errors.length === 0, errors.join(' | '));
+  } finally {
+    await stopServer(child);
+  }
+}
+
 async function oneFile(browser) {
   if (!existsSync(single)) throw new Error('dist-single/tern.html is missing: run scripts/build-single first');
   const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
@@ -247,6 +295,7 @@ await run('simulation', async () => {
   const browser = await launch();
   try {
     await served(browser);
+    await search(browser);
     await oneFile(browser);
   } finally {
     await browser.close();
