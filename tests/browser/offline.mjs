@@ -219,6 +219,11 @@ async function servedEdition(browser) {
     await type(page, '#f-alpha_max', '0.05');
     check('offline: a changed design is computed', /n = \d+ in each group/.test(await text(page, '#size-headline')) && !/n = 54 /.test(await text(page, '#size-headline')), await text(page, '#size-headline'));
     await readsSpreadsheet(page, 'offline');
+    // The simulation check's worker script comes from the service worker too.
+    await page.fill('#sim-replicates', '1000');
+    await page.click('#sim-run');
+    await page.waitForFunction(() => ['done', 'stopped'].includes(document.getElementById('simulation').dataset.state), null, { timeout: 30000 });
+    check('offline: the simulation check runs in its worker', (await page.evaluate(() => document.getElementById('simulation').dataset.state)) === 'done', await text(page, '#sim-msg'));
     check('offline: no request failed', failedLoads.length === 0, failedLoads.join(', '));
     await page.screenshot({ path: join(artifacts, 'offline-reload.png') });
   } finally {
