@@ -259,10 +259,14 @@ pub fn simulation_plan(req: &Request, groups: Option<Vec<Vec<f64>>>) -> Result<P
     spec.shape.groups = groups;
     let n1 = match req.n {
         Some(n) => n,
-        None => sample_size(&req.design)?.youden.map(|g| g.n1).ok_or_else(|| SimulationError::Missing {
-            field: "n".into(),
-            hint: "no conclusive sample size was found for this design, so state the n to check".into(),
-        })?,
+        None => {
+            // The block is checked before the search, which may take a while.
+            Plan::new(req.design, req.design.n_min(), req.context.dropout, &spec)?;
+            sample_size(&req.design)?.youden.map(|g| g.n1).ok_or_else(|| SimulationError::Missing {
+                field: "n".into(),
+                hint: "no conclusive sample size was found for this design, so state the n to check".into(),
+            })?
+        }
     };
     Ok(Plan::new(req.design, n1, req.context.dropout, &spec)?)
 }
@@ -307,13 +311,23 @@ fn summary(d: &Map<String, Value>, family: Family) -> Result<Summary, RequestErr
     Ok(Summary::from_fields(family, &values)?)
 }
 
+/// Answer a parsed request whose design's sample-size search was already
+/// run (the page's worker): its findings, for this very design.
+pub fn answer_found(req: &Request, found: &Found) -> Result<Answer, RequestError> {
+    answer_sized(req, decided(req)?, sample_size::finish(&req.design, found)?)
+}
+
 /// Answer a parsed request.
 pub fn answer(req: &Request) -> Result<Answer, RequestError> {
-    let decision = match &req.data {
+    answer_with(req, decided(req)?)
+}
+
+/// The request's decision, when it has data.
+fn decided(req: &Request) -> Result<Option<Decision>, RequestError> {
+    Ok(match &req.data {
         Some(d) => Some(decide_at_level(&req.design, d, req.interval_level)?),
         None => None,
-    };
-    answer_with(req, decision)
+    })
 }
 
 /// Answer a request whose data, if any, are already decided.

@@ -16,6 +16,7 @@ use crate::page::charts::{histogram, quantile, realised_errors};
 use crate::page::charts::table::design_numbers;
 use crate::page::charts::{prep, prob, short};
 use crate::page::results::{decide_card, rule_text, size_card, sizes, unit_of};
+use crate::engine::sample_size::Found;
 use serde_json::{Map, Value};
 
 /// Who made the report and when: the version and build of Tern and the
@@ -133,10 +134,19 @@ pub fn simulation_of(text: &str, file: Option<(&[u8], &str)>) -> Result<Option<S
 /// block of the report then carries so that `tern simulate` reproduces
 /// it; see [`simulation_of`]).
 pub fn prepare(text: &str, stamp: Stamp, data: Option<&DataPart>, simulation: Option<&Simulation>) -> Result<Prepared, ReportError> {
+    prepare_found(text, stamp, data, simulation, None)
+}
+
+/// [`prepare`] with the design's sample-size search already run (the
+/// page's worker found it): the same report, without searching again.
+pub fn prepare_found(text: &str, stamp: Stamp, data: Option<&DataPart>, simulation: Option<&Simulation>, found: Option<&Found>) -> Result<Prepared, ReportError> {
     let request: Value = serde_json::from_str(text).map_err(|e| RequestError::NotJson(e.to_string()))?;
     let mut req = request::parse_value(&request)?;
     req.curves = true;
-    let answer = request::answer(&req)?;
+    let answer = match found {
+        Some(f) => request::answer_found(&req, f)?,
+        None => request::answer(&req)?,
+    };
     let report = build(&request, &req, &answer, stamp, data, simulation)?;
     Ok(Prepared { report, request, answer, simulation: simulation.cloned() })
 }

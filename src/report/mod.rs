@@ -17,7 +17,7 @@ pub mod markdown;
 
 use apa::Inline;
 
-pub use build::{DataPart, Prepared, ReportError, Stamp, build, data_part_from_file, prepare, simulation_of};
+pub use build::{DataPart, Prepared, ReportError, Stamp, build, data_part_from_file, prepare, prepare_found, simulation_of};
 
 /// A report: a title, the date line, then sections in reading order.
 #[derive(Debug, Clone, PartialEq)]

@@ -124,12 +124,17 @@ fn label(id: &str, text: &str) {
 
 /// Blank every chart (the design is incomplete), with a word saying why.
 pub fn clear_all() {
+    clear_all_saying("Complete the design to see this chart.", "Empty: the design is incomplete.");
+}
+
+/// Blank every chart with `text` on it and `label` as its name.
+pub fn clear_all_saying(text: &str, name: &str) {
     for id in CHARTS {
         paint(id, &|a, l| {
             a.fill(&WHITE)?;
-            a.draw(&Text::new("Complete the design to see this chart.", (l.px(16.0), l.px(20.0)), l.text_in(14.0, charts::MUTED)))
+            a.draw(&Text::new(text, (l.px(16.0), l.px(20.0)), l.text_in(14.0, charts::MUTED)))
         });
-        label(id, "Empty: the design is incomplete.");
+        label(id, name);
     }
     fill_tables(None, false);
     dom::set_text("cap-n", "—");

@@ -225,9 +225,14 @@ pub(crate) fn recompute() {
         }
         _ => None,
     };
+    let searching = views.is_none() && answer.sample_size.pending;
     set_views(views);
     let t1 = dom::now_ms();
-    redraw_charts();
+    if searching {
+        canvas::clear_all_saying("The charts follow once the sample size is found.", "Empty: the search for the sample size is still running.");
+    } else {
+        redraw_charts();
+    }
     dom::set_attr("app", "data-engine-ms", Some(&format!("{:.2}", t1 - t0)));
     dom::set_attr("app", "data-draw-ms", Some(&format!("{:.2}", dom::now_ms() - t1)));
     finish(t0);

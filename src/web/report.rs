@@ -69,6 +69,10 @@ fn prepare() {
             format!("Complete the design first; still needed: {}.", reading.still_needed.join(", "))
         });
     }
+    // A long search runs in a worker: the report waits for its findings.
+    let Ok(found) = super::search::found_for(&reading.ask) else {
+        return say("The search for the sample size is still running (or was stopped): prepare the report once step 2 shows the sample size.");
+    };
     let mut request = request_json(&reading.ask);
     // A finished simulation check of this design goes in, with its block,
     // so that `tern report` on the same text draws the same data sets.
@@ -78,7 +82,7 @@ fn prepare() {
     }
     let text = serde_json::to_string_pretty(&Value::Object(request)).unwrap_or_default();
     let part = super::datafile::report_part();
-    match report::prepare(&text, Stamp::today(today()), part.as_ref(), checked.as_ref().map(|(_, s)| s)) {
+    match report::prepare_found(&text, Stamp::today(today()), part.as_ref(), checked.as_ref().map(|(_, s)| s), found.as_ref()) {
         Ok(p) => {
             dom::set_html("report-body", &report::html::content(&p.report));
             PREPARED.with(|s| *s.borrow_mut() = Some(p));

@@ -55,6 +55,21 @@ pub fn mode(ask: &Ask) -> Search {
     })
 }
 
+/// This design's findings, if its search ran in a worker (for the
+/// report, which then need not search again); `Err` while that search
+/// still runs or was stopped.
+pub fn found_for(ask: &Ask) -> Result<Option<Found>, ()> {
+    let k = key(ask);
+    STATE.with(|s| {
+        let s = s.borrow();
+        match &s.found {
+            Some((fk, f)) if *fk == k => Ok(Some(*f)),
+            _ if s.running.as_ref().is_some_and(|(rk, _)| *rk == k) || s.stopped.as_deref() == Some(k.as_str()) => Err(()),
+            _ => Ok(None),
+        }
+    })
+}
+
 /// After a reply: `pending` when its search ran out here. Starts the
 /// worker for this design (stopping another design's), or stops a worker
 /// no longer needed.

@@ -243,6 +243,9 @@ async function search(browser) {
     check('search: the long search goes to a worker', (await card())[0] === 'searching', JSON.stringify(await card()));
     await page.waitForFunction(() => /: n = \d+/.test(document.getElementById('size-search-text').innerText), null, { timeout: 20000 });
     check('search: where it stands is shown', /n = \d+/.test((await card())[1]), (await card())[1]);
+    check('search: the charts say they wait for it', /still running/.test(await page.getAttribute('#chart-sampling', 'aria-label')), await page.getAttribute('#chart-sampling', 'aria-label'));
+    await page.click('#report-prepare');
+    check('search: the report waits for it', /still running/.test(await page.locator('#report-msg').innerText()), await page.locator('#report-msg').innerText());
     const delays = [];
     await page.click('#f-unit');
     await page.evaluate(() => { window.searchKeys = []; document.getElementById('f-unit').addEventListener('keydown', (e) => window.searchKeys.push(performance.now() - e.timeStamp)); });
@@ -253,6 +256,10 @@ async function search(browser) {
     const took = Date.now() - started;
     const headline = await page.locator('#size-headline').innerText();
     check('search: the worker finds n = 30934', /30[ ,\u202f]?934/.test(headline), headline);
+    await page.click('#report-prepare');
+    await page.waitForSelector('#report-view:not([hidden])', { timeout: 5000 });
+    check('search: the report then uses its findings', /30[ ,\u202f]?934/.test(await page.locator('#report-body').innerText()));
+    await page.click('#report-close');
     console.log(`figure: exact two-sided search p0 = .5 against .51 in a worker: the keystroke answered in ${answered} ms, the answer in ${(took / 1000).toFixed(1)} s; worst key delay meanwhile ${Math.max(...delays).toFixed(1)} ms`);
     // Stop.
     await page.fill('#f-p_alt', '0.509');
