@@ -60,6 +60,12 @@ fn base(family: Family) -> DesignSpec {
             s.set("p1", 0.6);
             s.set("p2", 0.4);
         }
+        Family::TwoLearnersCv => {
+            s.set("theta0", 0.0);
+            s.set("theta1", 0.03);
+            s.set("sigma", 0.02);
+            s.set("folds", 10.0);
+        }
     }
     s
 }
@@ -320,6 +326,37 @@ fn table() -> Vec<Case> {
         case("json invalid: NaN literal", Input::Json(r#"{"family": "mean_t", "theta1": NaN}"#), &["not valid JSON"]),
         case("json invalid: number out of range", Input::Json(r#"{"family": "mean_t", "sigma": 1e999}"#), &["not valid JSON"]),
         case("json invalid: trailing text", Input::Json(r#"{"family": "mean_t"} x"#), &["not valid JSON"]),
+        // --- Two learners over cross-validation splits (issue 12).
+        case("folds 1", Input::Spec(with(TwoLearnersCv, |s| s.set("folds", 1.0))), &["folds is 1", "a whole number from 2 to 100000"]),
+        case("folds 2.5", Input::Spec(with(TwoLearnersCv, |s| s.set("folds", 2.5))), &["folds is 2.5", "a whole number from 2"]),
+        case(
+            "folds and test_train_ratio",
+            Input::Spec(with(TwoLearnersCv, |s| s.set("test_train_ratio", 0.25))),
+            &["give exactly one of folds and test_train_ratio"],
+        ),
+        case(
+            "neither folds nor test_train_ratio",
+            Input::Spec({
+                let mut s = DesignSpec::new(TwoLearnersCv, Alternative::Greater).with("alpha_max", 0.05).with("beta_max", 0.2);
+                s.set("theta0", 0.0);
+                s.set("theta1", 0.03);
+                s.set("sigma", 0.02);
+                s
+            }),
+            &["give exactly one of folds and test_train_ratio", "k-fold"],
+        ),
+        case(
+            "test_train_ratio 0",
+            Input::Spec({
+                let mut s = DesignSpec::new(TwoLearnersCv, Alternative::Greater).with("alpha_max", 0.05).with("beta_max", 0.2);
+                s.set("theta0", 0.0);
+                s.set("theta1", 0.03);
+                s.set("sigma", 0.02);
+                s.set("test_train_ratio", 0.0);
+                s
+            }),
+            &["test_train_ratio is 0", "above 0 and at most 100"],
+        ),
     ]
 }
 

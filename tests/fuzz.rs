@@ -380,6 +380,17 @@ fn effect(family: &'static str, alternative: &'static str) -> BoxedStrategy<Vec<
                 vec![("theta0", t0), ("theta1", theta1), ("sigma1", s1), ("sigma2", s2)]
             })
             .boxed(),
+        "two_learners_cv" => (effect("mean_t", alternative), prop_oneof![
+                4 => value(FieldKind::Count).prop_map(|k| vec![("folds", k)]),
+                4 => value(FieldKind::Ratio).prop_map(|r| vec![("test_train_ratio", r)]),
+                1 => (value(FieldKind::Count), value(FieldKind::Ratio)).prop_map(|(k, r)| vec![("folds", k), ("test_train_ratio", r)]),
+                1 => Just(Vec::new()),
+            ])
+            .prop_map(|(mut e, split)| {
+                e.extend(split);
+                e
+            })
+            .boxed(),
         _ => (prop::bool::ANY, value(FieldKind::Mean), 0.01f64..3.0, prop::bool::weighted(0.1), value(FieldKind::Spread), value(FieldKind::Mean), 0..5u8, extreme_number())
             .prop_map(move |(standardised, t0, d, flip, sigma, x1, pick, extreme)| {
                 if standardised {
@@ -485,7 +496,8 @@ fn registry_request(entry: &'static Entry) -> BoxedStrategy<String> {
         (Check::Positive, _) => FieldKind::Spread,
         (Check::OpenUnit | Check::Dropout, _) => FieldKind::Proportion,
         (Check::Weight, _) => FieldKind::Weight,
-        (Check::Ratio, _) => FieldKind::Ratio,
+        (Check::Ratio | Check::TestShare, _) => FieldKind::Ratio,
+        (Check::Folds, _) => FieldKind::Count,
         (Check::Limit, _) => FieldKind::Limit,
         (Check::Finite, _) => FieldKind::Mean,
     };

@@ -74,6 +74,13 @@ fn spec(p: &Params, alternative: Alternative, sign: f64, mirror: bool) -> Design
             s.set("p2", flip(p.p0));
             s.set("p1", flip(p.p0 + sign * p.dp));
         }
+        Family::TwoLearnersCv => {
+            s.set("theta0", p.theta0);
+            s.set("theta1", p.theta0 + sign * p.d * p.sigma);
+            s.set("sigma", p.sigma);
+            // A small test share, so that most designs have a conclusive J.
+            s.set("test_train_ratio", 0.01);
+        }
     }
     s
 }
@@ -82,7 +89,7 @@ fn spec(p: &Params, alternative: Alternative, sign: f64, mirror: bool) -> Design
 /// below so that the sample-size searches stay short.
 fn params(d_lo: f64, lim_lo: f64) -> impl Strategy<Value = Params> {
     (
-        0usize..8,
+        0usize..Family::ALL.len(),
         0.2f64..=0.8,
         -5.0f64..5.0,
         d_lo..1.5,
@@ -434,7 +441,7 @@ fn summary(d: &Design, p: &Params, x: &Draw) -> Summary {
     let spread = (theta1 - theta0).abs();
     let mean = theta0 - 2.0 * spread + 5.0 * spread * x.u1;
     match p.family {
-        Family::MeanZ | Family::MeanT | Family::PairedT => Summary::OneGroup { n: x.n1 as f64, mean, sd: Some(p.sigma * x.s1) },
+        Family::MeanZ | Family::MeanT | Family::PairedT | Family::TwoLearnersCv => Summary::OneGroup { n: x.n1 as f64, mean, sd: Some(p.sigma * x.s1) },
         Family::TwoMeansPooled | Family::TwoMeansWelch => Summary::TwoGroups {
             n1: x.n1 as f64,
             mean1: mean,

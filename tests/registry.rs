@@ -14,9 +14,17 @@ use tern::engine::table::{ReadOptions, read_table, summarise};
 use tern::page::form::{self, FormText};
 use tern::engine::table::roles::{Choice, complete, to_mapping};
 
+/// The design fields a test gives: the required ones, and `folds` where a
+/// family offers it (it or `test_train_ratio` must be given: the
+/// conventions' "exactly one of").
+fn given(e: &Entry) -> impl Iterator<Item = &'static Field> {
+    e.design.iter().filter(|f| f.required || f.key == "folds")
+}
+
 /// A planning value for a design field, on the `greater` side.
 fn planning(f: &Field) -> f64 {
     match (f.check, f.key) {
+        (Check::Folds, _) => 10.0,
         (Check::OpenUnit, "theta0" | "p2") => 0.5,
         (Check::OpenUnit, _) => 0.7,
         (_, "theta0") => 0.0,
@@ -44,7 +52,7 @@ fn design_json(e: &Entry) -> serde_json::Map<String, serde_json::Value> {
     m.insert("alternative".into(), "greater".into());
     m.insert("alpha_max".into(), 0.1.into());
     m.insert("beta_max".into(), 0.2.into());
-    for f in e.design.iter().filter(|f| f.required) {
+    for f in given(e) {
         m.insert(f.key.into(), planning(f).into());
     }
     m
@@ -72,7 +80,7 @@ fn every_family_decides_through_the_command_line_contract() {
 fn every_family_decides_through_the_page_form() {
     for e in &REGISTRY {
         let mut values: Vec<(String, String)> = vec![("alpha_max".into(), "10%".into()), ("beta_max".into(), "0.2".into())];
-        for f in e.design.iter().filter(|f| f.required) {
+        for f in given(e) {
             values.push((f.input.into(), planning(f).to_string()));
         }
         for f in e.data.iter().filter(|f| f.required) {
@@ -128,7 +136,7 @@ fn to_spec(e: &Entry) -> tern::engine::design::DesignSpec {
     let mut s = tern::engine::design::DesignSpec::new(e.family, tern::engine::threshold::Alternative::Greater)
         .with("alpha_max", 0.1)
         .with("beta_max", 0.2);
-    for f in e.design.iter().filter(|f| f.required) {
+    for f in given(e) {
         s.set(f.key, planning(f));
     }
     s

@@ -216,6 +216,14 @@ pub fn observe(design: &Design, data: &Summary) -> Result<Observation, DecisionE
             let obs = Observed { sd1: Some(s), ..Observed::default() };
             ((mean - theta0) / (s / (n as f64).sqrt()), mean, n, None, obs)
         }
+        (Family::TwoLearnersCv, Summary::OneGroup { n, mean, sd: s }) => {
+            let n = count("data.n", n, 2.0)?;
+            let mean = finite("data.mean", mean)?;
+            let s = sd("data.sd", s.ok_or(DecisionError::Missing { field: "data.sd", hint: "the corrected t needs the SD of the per-split differences" })?)?;
+            let Effect::CrossVal { rho, .. } = design.effect else { return Err(wrong()) };
+            let obs = Observed { sd1: Some(s), ..Observed::default() };
+            ((mean - theta0) / (s * (1.0 / n as f64 + rho).sqrt()), mean, n, None, obs)
+        }
         (Family::TwoMeansPooled | Family::TwoMeansWelch, Summary::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 }) => {
             let (n1, n2) = (count("data.n1", n1, 2.0)?, count("data.n2", n2, 2.0)?);
             let (m1, m2) = (finite("data.mean1", mean1)?, finite("data.mean2", mean2)?);

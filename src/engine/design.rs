@@ -46,6 +46,10 @@ pub enum Effect {
     Proportion { p0: f64, p1: f64 },
     /// Two proportions under the alternative (H0: equal).
     TwoProportions { p1: f64, p2: f64 },
+    /// Two learners' mean score difference over cross-validation splits:
+    /// θ0, θ1, the SD σ of the per-split differences, and ρ = n_test/n_train
+    /// (1/(k − 1) for k-fold), the floor of the variance factor 1/J + ρ.
+    CrossVal { theta0: f64, theta1: f64, sigma: f64, rho: f64 },
 }
 
 impl Effect {
@@ -53,7 +57,7 @@ impl Effect {
     /// difference p1 − p2 (θ0 = 0).
     pub fn thetas(&self) -> (f64, f64) {
         match *self {
-            Effect::Mean { theta0, theta1, .. } | Effect::Welch { theta0, theta1, .. } => (theta0, theta1),
+            Effect::Mean { theta0, theta1, .. } | Effect::Welch { theta0, theta1, .. } | Effect::CrossVal { theta0, theta1, .. } => (theta0, theta1),
             Effect::Proportion { p0, p1 } => (p0, p1),
             Effect::TwoProportions { p1, p2 } => (0.0, p1 - p2),
         }
@@ -127,6 +131,10 @@ pub enum DesignError {
     Direction { field: &'static str, value: f64, alternative: &'static str, rule: String },
     #[error("give either d or theta1 with sigma, not both")]
     EffectTwice,
+    /// Two fields that say the same thing in two ways, both given (or
+    /// neither, when one is needed).
+    #[error("give exactly one of {first} and {second}: {hint}")]
+    OneOf { first: &'static str, second: &'static str, hint: &'static str },
     /// Group 2 would reach the family's smallest size only beyond [`N_MAX`].
     #[error(
         "ratio is {value:e}, but {family} needs at least {least} observations in group 2 (n2 = ⌈ratio·n1⌉), which this ratio \
@@ -213,6 +221,21 @@ impl Design {
             }
             Family::ProportionExact | Family::ProportionNormal => Effect::Proportion { p0: get("theta0"), p1: get("theta1") },
             Family::TwoProportions => Effect::TwoProportions { p1: get("p1"), p2: get("p2") },
+            Family::TwoLearnersCv => {
+                let has = |key: &str| values.iter().any(|(k, _)| *k == key);
+                let rho = match (has("folds"), has("test_train_ratio")) {
+                    (true, false) => 1.0 / (get("folds") - 1.0),
+                    (false, true) => get("test_train_ratio"),
+                    _ => {
+                        return Err(DesignError::OneOf {
+                            first: "folds",
+                            second: "test_train_ratio",
+                            hint: "folds k for k-fold cross-validation (n_test/n_train = 1/(k − 1)), or test_train_ratio for repeated hold-out splits",
+                        });
+                    }
+                };
+                Effect::CrossVal { theta0: get("theta0"), theta1: get("theta1"), sigma: get("sigma"), rho }
+            }
         };
         let (theta0, theta1) = effect.thetas();
         let field = match (family, standardised) {
@@ -307,6 +330,7 @@ impl Design {
             Effect::Welch { theta0, sigma1, sigma2, .. } => Effect::Welch { theta0, theta1, sigma1, sigma2 },
             Effect::Proportion { p0, .. } => Effect::Proportion { p0, p1: theta1 },
             Effect::TwoProportions { p2, .. } => Effect::TwoProportions { p1: p2 + theta1, p2 },
+            Effect::CrossVal { theta0, sigma, rho, .. } => Effect::CrossVal { theta0, theta1, sigma, rho },
         };
         d
     }

@@ -34,6 +34,8 @@ pub enum Family {
     ProportionNormal,
     /// Two proportions, normal approximation with pooled SE under H0.
     TwoProportions,
+    /// Two learners over cross-validation splits: corrected resampled t.
+    TwoLearnersCv,
 }
 
 /// How a field's text is read on the page (the JSON contract takes numbers).
@@ -67,7 +69,14 @@ pub enum Check {
     Dropout,
     /// A cost weight: from [`WEIGHT_MIN`] to 1 − [`WEIGHT_MIN`].
     Weight,
+    /// The folds of k-fold cross-validation: a whole number from 2 to [`FOLDS_MAX`].
+    Folds,
+    /// Test items per training item in each split: above 0, at most 100.
+    TestShare,
 }
+
+/// The most folds taken (leave-one-out on a hundred thousand items).
+pub const FOLDS_MAX: f64 = 100_000.0;
 
 /// The smallest cost weight taken (and 1 − it the largest): a false alarm
 /// weighing a millionth of a miss, or a million times as much. Past it the
@@ -91,6 +100,8 @@ impl Check {
             Check::Whole => "a whole number",
             Check::Dropout => "a share from 0 to 0.95 (0.15 or 15% for 15 in 100 lost)",
             Check::Weight => "between 0.000001 and 0.999999 (a false alarm weighing from a millionth to a million times a miss)",
+            Check::Folds => "a whole number from 2 to 100000 (10 for 10-fold cross-validation)",
+            Check::TestShare => "above 0 and at most 100 (test items per training item in each split: 0.25 for an 80/20 split)",
         }
     }
 
@@ -106,6 +117,8 @@ impl Check {
             Check::Whole => v.is_finite() && v.fract() == 0.0,
             Check::Dropout => (0.0..=DROPOUT_MAX).contains(&v),
             Check::Weight => (WEIGHT_MIN..=1.0 - WEIGHT_MIN).contains(&v),
+            Check::Folds => v.fract() == 0.0 && (2.0..=FOLDS_MAX).contains(&v),
+            Check::TestShare => v > 0.0 && v <= 100.0,
         }
     }
 }
@@ -227,13 +240,17 @@ impl Shape {
 pub enum Kind {
     Means,
     Proportions,
+    Models,
 }
 
 impl Kind {
+    pub const ALL: [Kind; 3] = [Kind::Means, Kind::Proportions, Kind::Models];
+
     pub fn title(self) -> &'static str {
         match self {
             Kind::Means => "Means",
             Kind::Proportions => "Proportions",
+            Kind::Models => "Models",
         }
     }
 }
@@ -419,6 +436,38 @@ const ONE_PROPORTION: [Field; 2] = [
     ),
 ];
 
+const LEARNERS: [Field; 5] = [
+    field(
+        "theta0",
+        "Score difference if the learners are equal, θ0{u}",
+        "the score difference under H0 (θ0), usually 0",
+        Input::Number,
+        Check::Finite,
+    ),
+    field(
+        "theta1",
+        "Smallest score difference worth finding, θ1 (learner 1 − learner 2){u}",
+        "the smallest score difference worth finding (θ1), such as 0.01 in accuracy",
+        Input::Number,
+        Check::Finite,
+    ),
+    field(
+        "sigma",
+        "Expected standard deviation of the per-split differences, σ{u}",
+        "the planning standard deviation of the per-split score differences (σ)",
+        Input::Number,
+        Check::Positive,
+    ),
+    optional(field("folds", "Folds of the cross-validation, k (10 for 10-fold)", "the folds k of k-fold cross-validation", Input::Whole, Check::Folds)),
+    optional(field(
+        "test_train_ratio",
+        "Or, for repeated hold-out splits: test items per training item (0.25 for 80/20)",
+        "the test items per training item in each split (n_test/n_train)",
+        Input::Number,
+        Check::TestShare,
+    )),
+];
+
 const TWO_PROPORTIONS: [Field; 3] = [
     field("p1", "Rate in group 1 that would matter, p1 (e.g. 0.30 or 30%)", "the rate in group 1 under the alternative (p1)", Input::Rate, Check::OpenUnit),
     field(
@@ -451,6 +500,12 @@ const DATA_PAIRED: [Field; 3] = [
     data("sd", "data.sd", "Standard deviation of the differences{u}", "the standard deviation of the differences", Input::Number),
 ];
 
+const DATA_LEARNERS: [Field; 3] = [
+    data("n", "data.n", "Number of splits, J", "the number of splits (J)", Input::Whole),
+    data("mean", "data.mean", "Mean of the per-split differences{u}", "the mean of the per-split score differences", Input::Number),
+    data("sd", "data.sd", "Standard deviation of the per-split differences{u}", "the standard deviation of the per-split score differences", Input::Number),
+];
+
 const DATA_TWO_MEANS: [Field; 6] = [
     data("n1", "data.n1", "Group 1: number of measurements", "the number of measurements in group 1", Input::Whole),
     data("mean1", "data.mean1", "Group 1: mean{u}", "the mean of group 1", Input::Number),
@@ -474,7 +529,7 @@ const DATA_TWO_PROPORTIONS: [Field; 4] = [
 
 /// The registry, in the order the page offers the families and messages
 /// list them.
-pub const REGISTRY: [Entry; 8] = [
+pub const REGISTRY: [Entry; 9] = [
     Entry {
         family: Family::MeanZ,
         id: "mean_z",
@@ -650,6 +705,28 @@ pub const REGISTRY: [Entry; 8] = [
         null_words: Some("equal rates"),
         parameter: "p1 − p2",
         in_unit: false,
+    },
+    Entry {
+        family: Family::TwoLearnersCv,
+        id: "two_learners_cv",
+        title: "two learners compared over cross-validation splits (corrected resampled t)",
+        test: "corrected resampled t test on the per-split score differences",
+        approximation: Some("corrected resampled t: variance factor 1/J + n_test/n_train (Nadeau & Bengio 2003), noncentral t under the alternative"),
+        kind: Kind::Models,
+        chip: "Two models, cross-validated",
+        chip_note: "scores of two learners on the same splits (corrected resampled t)",
+        design: &LEARNERS,
+        standardised: true,
+        two_groups: false,
+        discrete: false,
+        n_min: 2,
+        data: &DATA_LEARNERS,
+        shape: Shape::Paired,
+        estimate: "the mean score difference",
+        axis: "mean score difference, learner 1 − learner 2",
+        null_words: None,
+        parameter: "μ_d",
+        in_unit: true,
     },
 ];
 

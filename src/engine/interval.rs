@@ -149,6 +149,11 @@ pub fn confidence_interval(design: &Design, data: &Summary, level: f64) -> Resul
             let what = if design.family == Family::PairedT { "t interval for the mean difference" } else { "t interval" };
             (mean - half, mean + half, format!("{what}, {df} degrees of freedom"))
         }
+        Figures::Splits { n, mean, sd, rho } => {
+            let df = n - 1.0;
+            let half = StudentT::new(df)?.quantile_upper(q)? * sd * (1.0 / n + rho).sqrt();
+            (mean - half, mean + half, format!("corrected resampled t interval for the mean score difference (variance factor 1/J + n_test/n_train), {df} degrees of freedom"))
+        }
         Figures::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 } => {
             let diff = mean1 - mean2;
             if design.family == Family::TwoMeansPooled {
@@ -221,6 +226,9 @@ pub fn effect_size(design: &Design, data: &Summary) -> Result<EffectSize, Interv
             ("Cohen's d_z", "d_z", (mean - theta0) / sd, "(mean difference − θ0)/sd, standardised by the SD of the differences")
         }
         Figures::OneGroup { mean, sd, .. } => ("Cohen's d", "d", (mean - theta0) / sd, "(mean − θ0)/sd, standardised by the sample SD"),
+        Figures::Splits { mean, sd, .. } => {
+            ("standardised mean difference", "d", (mean - theta0) / sd, "(mean difference − θ0)/sd, standardised by the SD of the per-split differences")
+        }
         Figures::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 } if design.family == Family::TwoMeansPooled => (
             "Cohen's d",
             "d",
@@ -253,6 +261,8 @@ pub fn effect_size(design: &Design, data: &Summary) -> Result<EffectSize, Interv
 enum Figures {
     KnownSigma { n: f64, mean: f64, sigma: f64 },
     OneGroup { n: f64, mean: f64, sd: f64 },
+    /// Per-split differences of two learners, with the variance floor ρ.
+    Splits { n: f64, mean: f64, sd: f64, rho: f64 },
     TwoGroups { n1: f64, mean1: f64, sd1: f64, n2: f64, mean2: f64, sd2: f64 },
     Proportion { x: u64, n: u64 },
     TwoProportions { x1: f64, n1: f64, x2: f64, n2: f64 },
@@ -267,6 +277,10 @@ fn read(design: &Design, data: &Summary) -> Result<Figures, IntervalError> {
         (Family::MeanT | Family::PairedT, Summary::OneGroup { n, mean, sd: s }, _) => {
             let s = s.ok_or(DecisionError::Missing { field: "data.sd", hint: "the t interval needs the sample standard deviation" })?;
             Figures::OneGroup { n: count("data.n", n, 2.0)? as f64, mean: finite("data.mean", mean)?, sd: sd("data.sd", s)? }
+        }
+        (Family::TwoLearnersCv, Summary::OneGroup { n, mean, sd: s }, Effect::CrossVal { rho, .. }) => {
+            let s = s.ok_or(DecisionError::Missing { field: "data.sd", hint: "the corrected t interval needs the SD of the per-split differences" })?;
+            Figures::Splits { n: count("data.n", n, 2.0)? as f64, mean: finite("data.mean", mean)?, sd: sd("data.sd", s)?, rho }
         }
         (Family::TwoMeansPooled | Family::TwoMeansWelch, Summary::TwoGroups { n1, mean1, sd1, n2, mean2, sd2 }, _) => Figures::TwoGroups {
             n1: count("data.n1", n1, 2.0)? as f64,

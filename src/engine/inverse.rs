@@ -32,6 +32,9 @@ fn theta_at(design: &Design, u: f64) -> f64 {
     let s = if theta1 >= theta0 { 1.0 } else { -1.0 };
     match design.effect {
         Effect::Mean { sigma, .. } => theta0 + s * u * D_MAX * sigma,
+        // The range reaches a standardised shift of D_MAX whatever the
+        // variance floor ρ.
+        Effect::CrossVal { sigma, rho, .. } => theta0 + s * u * D_MAX * sigma * (1.0 + rho).sqrt(),
         Effect::Welch { sigma1, sigma2, .. } => theta0 + s * u * D_MAX * ((sigma1 * sigma1 + sigma2 * sigma2) / 2.0).sqrt(),
         Effect::Proportion { p0, .. } => {
             let room = if s > 0.0 { 1.0 - p0 } else { p0 };
@@ -46,7 +49,7 @@ fn theta_at(design: &Design, u: f64) -> f64 {
 
 fn standardised(design: &Design, theta1: f64) -> Option<f64> {
     match design.effect {
-        Effect::Mean { theta0, sigma, .. } => Some((theta1 - theta0) / sigma),
+        Effect::Mean { theta0, sigma, .. } | Effect::CrossVal { theta0, sigma, .. } => Some((theta1 - theta0) / sigma),
         _ => None,
     }
 }

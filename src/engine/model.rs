@@ -192,6 +192,29 @@ impl Design {
         }
     }
 
+    /// The design as the sample grows without end, where the statistic's
+    /// laws stop changing before its errors vanish: the corrected
+    /// resampled t's variance factor 1/J + ρ never falls below ρ, so its
+    /// laws tend to N(0, 1) and N(δ/(σ√ρ), 1). None for every family whose
+    /// errors vanish as n grows.
+    pub fn limit_model(&self) -> Option<Model> {
+        let Effect::CrossVal { theta0, theta1, sigma, rho } = self.effect else { return None };
+        let ncp = (theta1 - theta0) / (sigma * rho.sqrt());
+        let h1 = Normal::new(ncp, 1.0).ok()?;
+        Some(Model {
+            sampling: Sampling::Continuous { h0: ContDist::Normal(Normal::STANDARD), h1: ContDist::Normal(h1) },
+            setup: Setup { alternative: self.alternative, centre: 0.0, weight: self.weight, single_crossing: true },
+            offset: theta0,
+            slope: sigma * rho.sqrt(),
+            statistic: "z",
+            n1: u64::MAX,
+            n2: None,
+            df: None,
+            ncp: Some(ncp),
+            approximation: None,
+        })
+    }
+
     /// The model at the given group sizes, with observed SDs where the
     /// statistic uses them.
     pub fn model_observed(&self, n1: u64, n2: Option<u64>, obs: &Observed) -> Result<Model, ModelError> {
@@ -209,6 +232,7 @@ impl Design {
             Effect::Welch { theta0, theta1, sigma1, sigma2 } => vec![("theta0", theta0), ("theta1", theta1), ("sigma1", sigma1), ("sigma2", sigma2)],
             Effect::Proportion { p0, p1 } => vec![("theta0", p0), ("theta1", p1)],
             Effect::TwoProportions { p1, p2 } => vec![("p1", p1), ("p2", p2)],
+            Effect::CrossVal { theta0, theta1, sigma, rho } => vec![("theta0", theta0), ("theta1", theta1), ("sigma", sigma), ("test_train_ratio", rho)],
         };
         let extremity = |v: f64| if v == 0.0 || !v.is_finite() { 0.0 } else { v.abs().ln().abs() };
         let (field, value) = values.iter().copied().fold(values[0], |a, b| if extremity(b.1) > extremity(a.1) { b } else { a });
@@ -365,6 +389,25 @@ impl Design {
                     df: None,
                     ncp: Some(mean),
                     approximation: Some("normal approximation, pooled SE under H0 and unpooled SE under the alternative, no continuity correction"),
+                }
+            }
+            (Family::TwoLearnersCv, Effect::CrossVal { sigma, rho, .. }) => {
+                // Corrected resampled t: the variance factor 1/J + ρ
+                // (Nadeau & Bengio 2003; Bouckaert & Frank 2004's form).
+                let df = n - 1.0;
+                let f = (1.0 / n + rho).sqrt();
+                let ncp = delta / (sigma * f);
+                Model {
+                    sampling: Sampling::Continuous { h0: ContDist::T(StudentT::new(df)?), h1: ContDist::Nct(NoncentralT::new(df, ncp)?) },
+                    setup: setup(true),
+                    offset: theta0,
+                    slope: obs.sd1.unwrap_or(sigma) * f,
+                    statistic: "t",
+                    n1,
+                    n2: None,
+                    df: Some(df),
+                    ncp: Some(ncp),
+                    approximation: self.family.entry().approximation,
                 }
             }
             // Design::new pairs every family with its own effect kind.

@@ -9,7 +9,7 @@
 //! search scans upward and also reports the smallest n from which every n up
 //! to a stated bound stays conclusive.
 
-use super::design::{Design, N_MAX};
+use super::design::{Design, Effect, N_MAX};
 use super::dist::{Continuous, Discrete, Normal};
 use super::evaluate::{EvaluateError, Evaluation, evaluate, sig3, solve_with_work, within};
 use super::conventional::{continuous_level, discrete_level_near};
@@ -459,7 +459,9 @@ pub fn search(design: &Design, quick: Option<usize>, progress: &mut dyn FnMut(Pr
             None => None,
         }
     } else {
-        smallest_guided(lo, max, GUIDED_START, |n| youden_probe(design, n, &mut solves))?
+        // A design whose limit as n grows is not conclusive is conclusive
+        // at no n (the corrected resampled t's variance floor).
+        if floor(design)?.is_some() { None } else { smallest_guided(lo, max, GUIDED_START, |n| youden_probe(design, n, &mut solves))? }
     };
     let (mut stable_from, mut checked_to) = (None, None);
     if discrete && let Some(first) = youden {
@@ -534,6 +536,10 @@ pub fn finish(design: &Design, found: &Found) -> Result<SampleSize, EvaluateErro
         None => None,
     };
     let mut notes = notes(design, youden, conventional, stable_from, balancing_weight, max, conventional_errors);
+    if let Some(f) = floor(design)? {
+        notes.retain(|x| !x.starts_with("No sample size up to"));
+        notes.insert(0, f);
+    }
     if let Some(n) = stopped_at {
         let said = match youden {
             None => format!(
@@ -571,6 +577,52 @@ pub fn finish(design: &Design, found: &Found) -> Result<SampleSize, EvaluateErro
         stopped_at,
         pending: false,
     })
+}
+
+/// When the design's limit as n grows (`Design::limit_model`) is not
+/// conclusive, no n is: the sentence saying so, with the variance floor
+/// and the smallest effect whose limit is conclusive (bisection on the
+/// limit's normal shift, 200 steps at most). None for every other design.
+fn floor(design: &Design) -> Result<Option<String>, EvaluateError> {
+    let Some(limit) = design.limit_model() else { return Ok(None) };
+    let (_, errors, _) = super::evaluate::solve(&limit)?;
+    if within(design, &errors) {
+        return Ok(None);
+    }
+    let Effect::CrossVal { theta0, theta1, sigma, rho } = design.effect else { return Ok(None) };
+    let side = if theta1 >= theta0 { 1.0 } else { -1.0 };
+    let scale = sigma * rho.sqrt();
+    let conclusive_at = |shift: f64| -> Result<bool, EvaluateError> {
+        let d = design.with_theta1(theta0 + side * shift * scale);
+        Ok(match d.limit_model() {
+            Some(m) => within(&d, &super::evaluate::solve(&m)?.1),
+            None => false,
+        })
+    };
+    // A normal shift of 80 SDs is conclusive for every limit above 1e-300.
+    let (mut lo, mut hi) = (0.0, 80.0);
+    let least = if conclusive_at(hi)? {
+        for _ in 0..200 {
+            let mid = 0.5 * (lo + hi);
+            if conclusive_at(mid)? { hi = mid } else { lo = mid }
+            if hi - lo <= 1e-9 * hi {
+                break;
+            }
+        }
+        Some(theta0 + side * hi * scale)
+    } else {
+        None
+    };
+    let least = least.map_or(String::new(), |l| format!(" The smallest difference that any number of splits can make conclusive is θ1 = {}.", sig3(l)));
+    Ok(Some(format!(
+        "No number of splits makes this design conclusive: the corrected statistic's variance, σ²·(1/J + n_test/n_train), never falls below \
+         σ²·n_test/n_train = {} (the training sets overlap), so even endless splits leave α* = {} and β* = {} against your limits {} and {}.{least}",
+        sig3(sigma * sigma * rho),
+        sig3(errors.alpha),
+        sig3(errors.beta),
+        sig3(design.alpha_max),
+        sig3(design.beta_max)
+    )))
 }
 
 /// The weight w with w·f0(c) = (1 − w)·f1(c) at the conventional critical

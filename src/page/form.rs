@@ -363,6 +363,7 @@ pub fn engine_message(family: Option<Family>, err: &RequestError) -> FieldMessag
                 let rule = rule.replace("theta0", "θ0");
                 at(field, format!("{} does not fit the direction {dir}: it must be {rule}.", show(*value)))
             }
+            DesignError::OneOf { first, .. } => at(first, format!("{}.", capital(&e.to_string()))),
             other => general(other.to_string()),
         },
         RequestError::Decision(e) => match e {

@@ -365,7 +365,7 @@ pub fn justification(req: &Request, ans: &Answer) -> Option<Vec<Inline>> {
         .filter(|f| f.key.starts_with("sigma"))
         .filter_map(|f| {
             let v = match (f.key, design.effect) {
-                ("sigma", Effect::Mean { sigma, .. }) => sigma,
+                ("sigma", Effect::Mean { sigma, .. } | Effect::CrossVal { sigma, .. }) => sigma,
                 ("sigma1", Effect::Welch { sigma1, .. }) => sigma1,
                 ("sigma2", Effect::Welch { sigma2, .. }) => sigma2,
                 _ => return None,
@@ -376,6 +376,11 @@ pub fn justification(req: &Request, ans: &Answer) -> Option<Vec<Inline>> {
         .collect();
     if !spreads.is_empty() {
         s.push_str(&format!(", assuming {}", spreads.join(" and ")));
+    }
+    if let Effect::CrossVal { rho, .. } = design.effect {
+        let folds = 1.0 / rho + 1.0;
+        let k = if (folds - folds.round()).abs() < 1e-9 { format!(", as in {}-fold cross-validation", folds.round()) } else { String::new() };
+        s.push_str(&format!(" and {} test items per training item in each split{k}", crate::engine::evaluate::sig3(rho)));
     }
     s.push_str(&format!(
         ". Limits of α = {} for the type I error and β = {} for the type II error (power {}) were set in advance; ",

@@ -34,7 +34,7 @@ fn msg_id(name: &str) -> String {
 pub fn build() -> Result<(), JsValue> {
     let doc = dom::document().ok_or("no document")?;
     if let Some(chips) = dom::by_id("family-chips") {
-        for kind in [Kind::Means, Kind::Proportions] {
+        for kind in Kind::ALL {
             let group = dom::add(&chips, "div", "").ok_or("no div")?;
             group.set_attribute("class", "chip-group")?;
             group.set_attribute("role", "group")?;

@@ -188,6 +188,10 @@ impl Plan {
         let theta = if h == Hypothesis::Null { theta0 } else { theta1 };
         match self.design.effect {
             Effect::Mean { sigma, .. } => Truth { mean: [theta, 0.0], sd: [sigma, sigma], rate: [0.0; 2] },
+            // The per-split differences, drawn independently: the check
+            // shows the statistic's behaviour under the planning values,
+            // not the overlap of real training sets.
+            Effect::CrossVal { sigma, .. } => Truth { mean: [theta, 0.0], sd: [sigma, sigma], rate: [0.0; 2] },
             Effect::Welch { sigma1, sigma2, .. } => Truth { mean: [theta, 0.0], sd: [sigma1, sigma2], rate: [0.0; 2] },
             Effect::Proportion { .. } => Truth { mean: [0.0; 2], sd: [0.0; 2], rate: [theta, theta] },
             Effect::TwoProportions { p1, p2 } => {
