@@ -88,6 +88,10 @@ pub struct SampleSize {
     /// found yet. Never set in the command line's answers.
     #[serde(skip_serializing_if = "std::ops::Not::not")]
     pub pending: bool,
+    /// The design's limit as n grows is not conclusive, so no n is (the
+    /// first note says why): no search ran.
+    #[serde(skip_serializing_if = "std::ops::Not::not")]
+    pub never: bool,
 }
 
 impl SampleSize {
@@ -106,6 +110,7 @@ impl SampleSize {
             solves: 0,
             stopped_at: None,
             pending: true,
+            never: false,
         }
     }
 }
@@ -536,7 +541,9 @@ pub fn finish(design: &Design, found: &Found) -> Result<SampleSize, EvaluateErro
         None => None,
     };
     let mut notes = notes(design, youden, conventional, stable_from, balancing_weight, max, conventional_errors);
-    if let Some(f) = floor(design)? {
+    let floored = floor(design)?;
+    let never = floored.is_some();
+    if let Some(f) = floored {
         notes.retain(|x| !x.starts_with("No sample size up to"));
         notes.insert(0, f);
     }
@@ -576,6 +583,7 @@ pub fn finish(design: &Design, found: &Found) -> Result<SampleSize, EvaluateErro
         solves,
         stopped_at,
         pending: false,
+        never,
     })
 }
 

@@ -118,6 +118,11 @@ pub fn size_card(ans: &Answer, unit: &str) -> SizeCard {
             "Searching for the sample size…".to_string(),
             "Exact counts are checked one n at a time, and this design needs many: the search runs in the background, so the page stays usable. Where it stands shows below; Stop ends it.".to_string(),
         ),
+        _ if ss.never => (
+            "none",
+            "No sample size is large enough".to_string(),
+            "However many splits you run, the errors stop shrinking before they reach your limits; the note below says why and which effect could be found.".to_string(),
+        ),
         (Some(g), Some(at)) => (
             "found",
             format!("n = {}", sizes(g.n1, g.n2)),

@@ -136,6 +136,23 @@ async function main() {
     check('paste: read', st2 === 'ready', st2);
     check('paste: n and mean filled', (await fieldValue(page, 'n')) === '5' && Math.abs(Number(await fieldValue(page, 'mean')) - 4.94) < 1e-9, `${await fieldValue(page, 'n')} ${await fieldValue(page, 'mean')}`);
 
+    // Per-split scores of two learners (an invented lab's 2 × 5-fold run):
+    // the differences decide the cross-validated comparison.
+    await page.click('#new-design');
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="two_learners_cv"])'));
+    await act(page, () => page.click('label.chip:has(input[name="alternative"][value="greater"])'));
+    for (const [id, v] of [['#f-theta0', '0'], ['#f-theta1', '0.03'], ['#f-sigma', '0.02'], ['#f-folds', '5'], ['#f-alpha_max', '0.1'], ['#f-beta_max', '0.2']]) await page.fill(id, v);
+    const scores = [[0.912, 0.881], [0.905, 0.889], [0.921, 0.874], [0.899, 0.892], [0.915, 0.870], [0.908, 0.884], [0.917, 0.879], [0.902, 0.895], [0.919, 0.868], [0.910, 0.886]];
+    const st2c = await paste(page, 'split,model_a,model_b\n' + scores.map((r, i) => `rep${Math.floor(i / 5) + 1}-fold${(i % 5) + 1},${r[0]},${r[1]}`).join('\n') + '\n');
+    const diffs = scores.map(([a, b]) => a - b);
+    const meanDiff = diffs.reduce((x, y) => x + y, 0) / diffs.length;
+    check('per-split scores: read as two score columns', st2c === 'ready', st2c);
+    check('per-split scores: J and the mean difference filled', (await fieldValue(page, 'n')) === '10' && Math.abs(Number(await fieldValue(page, 'mean')) - meanDiff) < 1e-9, `${await fieldValue(page, 'n')} ${await fieldValue(page, 'mean')} vs ${meanDiff}`);
+    const cvTitle = await page.locator('#decide-title').innerText();
+    check('per-split scores: the cross-validated comparison decides', /Reject H0|Do not reject H0|Inconclusive/.test(cvTitle), cvTitle);
+    await page.click('#new-design');
+    await act(page, () => page.click('label.chip:has(input[name="family"][value="mean_t"])'));
+
     // Cells copied from a spreadsheet: tabs between columns, decimal commas.
     const st2b = await paste(page, 'arm\tscore\nA\t4,5\nA\t5,5\nB\t3,0\n');
     check('paste from a spreadsheet: tabs and decimal commas', st2b === 'ready' && await page.locator('input[name="dr-delimiter"][value="tab"]').isChecked() && (await fieldValue(page, 'mean')) === '4.333333333', `${st2b} ${await fieldValue(page, 'mean')}`);
