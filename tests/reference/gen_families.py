@@ -658,6 +658,17 @@ def sample_size_cont(des):
     return ny, nc, src_conv
 
 
+def stable_from(res, checked_to):
+    """The smallest n from which every n up to checked_to is conclusive (res: n -> bool),
+    None when checked_to itself is not ("Sample-size search", discrete families)."""
+    if not res[checked_to]:
+        return None
+    n_stable = checked_to
+    while n_stable - 1 >= 1 and res[n_stable - 1]:
+        n_stable -= 1
+    return n_stable
+
+
 def sample_size_exact(des, nmax=20000):
     amax, bmax = des["alpha_max"], des["beta_max"]
     target = 1 - bmax
@@ -678,12 +689,7 @@ def sample_size_exact(des, nmax=20000):
         n += 1
         if n > nmax:
             raise Skip("exact search too long")
-    if not res[checked_to]:
-        n_stable = None
-    else:
-        n_stable = checked_to
-        while n_stable - 1 >= 1 and res[n_stable - 1]:
-            n_stable -= 1
+    n_stable = stable_from(res, checked_to)
     return n_first, n_stable, checked_to, n_conv
 
 
@@ -740,6 +746,18 @@ def case_at_n_cont(name, des, n):
     add(name, "at_n", d, exp, cont_source(m, extra))
 
 
+def region_fields(t, i, alt):
+    """Region i of an exact_table as the cases write it, with the tied regions."""
+    out = {}
+    if alt == "two_sided":
+        out["k_low"], out["k_high"] = t["regions"][i]
+        out["ties"] = [t["regions"][j] for j in t["tied"]]
+    else:
+        out["k_star"] = t["regions"][i]
+        out["ties"] = sorted(t["regions"][j] for j in t["tied"])
+    return out
+
+
 def case_at_n_exact(name, des, n):
     d = dict(des, n=n)
     t = exact_table(d, n)
@@ -747,13 +765,7 @@ def case_at_n_exact(name, des, n):
     a, b = float(t["alpha"][i]), float(t["beta"][i])
     if min(a, b) < TINY:
         raise Skip("tiny")
-    exp = {}
-    if alt == "two_sided":
-        exp["k_low"], exp["k_high"] = t["regions"][i]
-        exp["ties"] = [t["regions"][j] for j in t["tied"]]
-    else:
-        exp["k_star"] = t["regions"][i]
-        exp["ties"] = sorted(t["regions"][j] for j in t["tied"])
+    exp = region_fields(t, i, alt)
     j = t["conv"]
     exp.update({"alpha_star": a, "beta_star": b,
                 "conclusive": bool(a <= des["alpha_max"] and b <= des["beta_max"]),
@@ -1196,6 +1208,28 @@ def gen_checks():
     case_at_n_cont("check.mean_z.raw.less.midpoint", des, 40)
 
 
+def write_reference(filename, generator, cases, skipped, families, kinds, sort_keys):
+    """Write the cases (with the library versions) next to this script and print
+    the counts per family x alternative x kind and the cases left out."""
+    out = {"generator": generator,
+           "versions": {"python": platform.python_version(), "scipy": scipy.__version__,
+                        "statsmodels": statsmodels.__version__, "numpy": np.__version__,
+                        "mpmath": mp.__version__},
+           "cases": cases}
+    path = Path(__file__).resolve().parent / filename
+    path.write_text(json.dumps(out, indent=1, sort_keys=sort_keys, allow_nan=False) + "\n")
+    print(f"wrote {path} ({path.stat().st_size} bytes), {len(cases)} cases")
+    print(f"{'family':20s} {'alternative':10s} " + " ".join(f"{k:>11s}" for k in kinds))
+    for fam in families:
+        for alt in ALTS:
+            cnt = [sum(1 for c in cases if c["design"]["family"] == fam
+                       and c["design"]["alternative"] == alt and c["kind"] == k) for k in kinds]
+            print(f"{fam:20s} {alt:10s} " + " ".join(f"{x:11d}" for x in cnt))
+    print(f"skipped {len(skipped)} candidate cases:")
+    for n, why in skipped:
+        print(f"  {n}: {why}")
+
+
 def main():
     self_check()
     rng = np.random.default_rng(20261202)
@@ -1215,26 +1249,8 @@ def main():
             gen_means_family(fam, rng)
         print(f"{fam}: {time.time() - t:.1f} s", file=sys.stderr)
     cases = sorted(CASES, key=lambda c: c["name"])
-    out = {"generator": "tests/reference/gen_families.py",
-           "versions": {"python": platform.python_version(), "scipy": scipy.__version__,
-                        "statsmodels": statsmodels.__version__, "numpy": np.__version__,
-                        "mpmath": mp.__version__},
-           "cases": cases}
-    path = Path(__file__).resolve().parent / "families.json"
-    path.write_text(json.dumps(out, indent=1, sort_keys=False, allow_nan=False) + "\n")
-    # summary
-    print(f"wrote {path} ({path.stat().st_size} bytes), {len(cases)} cases")
-    kinds = ["at_n", "sample_size", "decision"]
-    print(f"{'family':20s} {'alternative':10s} " + " ".join(f"{k:>11s}" for k in kinds))
-    for fam in FAMILIES:
-        for alt in ALTS:
-            cnt = [sum(1 for c in cases if c["design"]["family"] == fam
-                       and c["design"]["alternative"] == alt and c["kind"] == k) for k in kinds]
-            print(f"{fam:20s} {alt:10s} " + " ".join(f"{x:11d}" for x in cnt))
-    print(f"skipped {len(SKIPPED)} candidate cases:")
-    for n, why in SKIPPED:
-        print(f"  {n}: {why}")
-
+    write_reference("families.json", "tests/reference/gen_families.py", cases, SKIPPED,
+                    FAMILIES, ["at_n", "sample_size", "decision"], sort_keys=False)
 
 if __name__ == "__main__":
     main()
