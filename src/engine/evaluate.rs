@@ -141,6 +141,10 @@ pub enum EvaluateError {
     Threshold(#[from] ThresholdError),
     #[error("a distribution could not be evaluated: {0}")]
     Dist(#[from] super::dist::DistError),
+    /// A sample-size search given a quick budget stopped early, where its
+    /// caller needed its end (`sample_size::search`).
+    #[error("the sample-size search stopped before its end")]
+    Unfinished,
 }
 
 /// Solve the threshold of a model: α*, β* and the cut.

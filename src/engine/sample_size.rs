@@ -422,7 +422,7 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
     match search(design, None, &mut |_| {})? {
         Some(found) => finish(design, &found),
         // Without a quick budget the search always finishes.
-        None => Err(EvaluateError::Dist(super::dist::DistError::Parameter { name: "search", value: f64::NAN, rule: "run to its end" })),
+        None => Err(EvaluateError::Unfinished),
     }
 }
 
