@@ -336,25 +336,15 @@ fn table() -> Vec<Case> {
         ),
         case(
             "neither folds nor test_train_ratio",
-            Input::Spec({
-                let mut s = DesignSpec::new(TwoLearnersCv, Alternative::Greater).with("alpha_max", 0.05).with("beta_max", 0.2);
-                s.set("theta0", 0.0);
-                s.set("theta1", 0.03);
-                s.set("sigma", 0.02);
-                s
-            }),
+            Input::Spec(with(TwoLearnersCv, |s| s.unset("folds"))),
             &["give exactly one of folds and test_train_ratio", "k-fold"],
         ),
         case(
             "test_train_ratio 0",
-            Input::Spec({
-                let mut s = DesignSpec::new(TwoLearnersCv, Alternative::Greater).with("alpha_max", 0.05).with("beta_max", 0.2);
-                s.set("theta0", 0.0);
-                s.set("theta1", 0.03);
-                s.set("sigma", 0.02);
+            Input::Spec(with(TwoLearnersCv, |s| {
+                s.unset("folds");
                 s.set("test_train_ratio", 0.0);
-                s
-            }),
+            })),
             &["test_train_ratio is 0", "above 0 and at most 100"],
         ),
     ]

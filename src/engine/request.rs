@@ -406,6 +406,9 @@ pub enum Search {
     Quick(usize),
     /// Already run elsewhere for this very design.
     Done(Found),
+    /// Running (or stopped) elsewhere for this very design: the sample size
+    /// is pending, with no quick search to repeat.
+    Elsewhere,
 }
 
 /// Everything the page shows for one [`Ask`], with every refusal at once.
@@ -451,6 +454,7 @@ pub fn reply_searching(ask: &Ask, search: Search) -> Reply {
         Search::Quick(work) => sample_size::search(&design, Some(work), &mut |_| {})
             .and_then(|f| f.map_or_else(|| Ok(SampleSize::pending(&design)), |f| sample_size::finish(&design, &f))),
         Search::Done(found) => sample_size::finish(&design, &found),
+        Search::Elsewhere => Ok(SampleSize::pending(&design)),
     };
     let answer = match sized.map_err(RequestError::from).and_then(|s| answer_sized(&req, decision, s)) {
         Ok(a) => a,

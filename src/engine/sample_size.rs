@@ -466,7 +466,7 @@ pub fn search(design: &Design, quick: Option<usize>, progress: &mut dyn FnMut(Pr
     } else {
         // A design whose limit as n grows is not conclusive is conclusive
         // at no n (the corrected resampled t's variance floor).
-        if floor(design)?.is_some() { None } else { smallest_guided(lo, max, GUIDED_START, |n| youden_probe(design, n, &mut solves))? }
+        if limit_blocks(design)? { None } else { smallest_guided(lo, max, GUIDED_START, |n| youden_probe(design, n, &mut solves))? }
     };
     let (mut stable_from, mut checked_to) = (None, None);
     if discrete && let Some(first) = youden {
@@ -585,6 +585,15 @@ pub fn finish(design: &Design, found: &Found) -> Result<SampleSize, EvaluateErro
         pending: false,
         never,
     })
+}
+
+/// Is the design's limit as n grows (`Design::limit_model`) not
+/// conclusive, so that no n is? One solve of the limit's normal laws.
+fn limit_blocks(design: &Design) -> Result<bool, EvaluateError> {
+    match design.limit_model() {
+        Some(limit) => Ok(!within(design, &super::evaluate::solve(&limit)?.1)),
+        None => Ok(false),
+    }
 }
 
 /// When the design's limit as n grows (`Design::limit_model`) is not

@@ -323,7 +323,9 @@ pub fn request_json(ask: &Ask) -> serde_json::Map<String, serde_json::Value> {
     obj
 }
 
-fn capital(s: &str) -> String {
+/// A message's first letter in upper case (engine messages start lower
+/// case, to read well inside a sentence); the one such helper of the page.
+pub fn capital(s: &str) -> String {
     let mut c = s.chars();
     match c.next() {
         Some(f) => f.to_uppercase().collect::<String>() + c.as_str(),

@@ -14,6 +14,7 @@
 //! file or a link.
 //! Nothing is written to local storage unless the user asks.
 
+use crate::page::form::capital;
 use super::{dom, form, listen, recompute};
 use crate::engine::design::Family;
 use crate::engine::context;
@@ -205,11 +206,6 @@ fn show_list() {
     }
     dom::set_html("keep-list", &html);
     dom::set_hidden("keep-none", !list.is_empty());
-}
-
-fn capital(s: &str) -> String {
-    let mut c = s.chars();
-    c.next().map_or(String::new(), |f| f.to_uppercase().collect::<String>() + c.as_str())
 }
 
 fn open_kept(i: usize) {

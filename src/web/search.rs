@@ -15,6 +15,7 @@
 //! a statistic.
 
 use super::dom;
+use crate::page::form::capital;
 use super::workers::{self, Spawned};
 use crate::engine::request::{Ask, Search, design_json};
 use crate::engine::sample_size::{Found, QUICK_WORK};
@@ -46,12 +47,17 @@ fn key(ask: &Ask) -> String {
 }
 
 /// How the next reply should search: with the findings if this design's
-/// are in, else quickly.
+/// are in; not at all while its worker runs or after Stop (another field
+/// typed meanwhile must not repeat the quick search); else quickly.
 pub fn mode(ask: &Ask) -> Search {
     let k = key(ask);
-    STATE.with(|s| match &s.borrow().found {
-        Some((fk, f)) if *fk == k => Search::Done(*f),
-        _ => Search::Quick(QUICK_WORK),
+    STATE.with(|s| {
+        let s = s.borrow();
+        match &s.found {
+            Some((fk, f)) if *fk == k => Search::Done(*f),
+            _ if s.running.as_ref().is_some_and(|(rk, _)| *rk == k) || s.stopped.as_deref() == Some(k.as_str()) => Search::Elsewhere,
+            _ => Search::Quick(QUICK_WORK),
+        }
     })
 }
 
@@ -220,10 +226,3 @@ pub fn stop() {
     show_stopped();
 }
 
-fn capital(s: &str) -> String {
-    let mut c = s.chars();
-    match c.next() {
-        Some(f) => f.to_uppercase().collect::<String>() + c.as_str(),
-        None => String::new(),
-    }
-}

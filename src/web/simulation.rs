@@ -15,6 +15,7 @@
 //! call; the panel's inputs never recompute the design; a change to the
 //! design during a run marks the result as made for the design as it was.
 
+use crate::page::form::capital;
 use super::{dom, form, listen};
 use crate::engine::request::{self, RequestError};
 use crate::engine::simulate::shape::{Kind, SHAPES, param_keys};
@@ -347,13 +348,6 @@ fn place(e: &RequestError) {
     }
 }
 
-fn capital(s: &str) -> String {
-    let mut c = s.chars();
-    match c.next() {
-        Some(f) => f.to_uppercase().collect::<String>() + c.as_str(),
-        None => String::new(),
-    }
-}
 
 /// Check the request on this thread (every refusal at once, at its
 /// field), then start the workers.

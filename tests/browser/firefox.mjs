@@ -10,7 +10,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import puppeteer from 'puppeteer-core';
-import { root, artifacts, check, run } from './lib.mjs';
+import { root, artifacts, check, ink, run } from './lib.mjs';
 
 const FIREFOX = '/usr/bin/firefox-esr';
 const single = join(root, 'dist-single', 'tern.html');
@@ -49,14 +49,8 @@ async function main() {
     check('firefox, file://: sample size computed', /n = 54 in each group/.test(await txt('#size-headline')), await txt('#size-headline'));
     check('firefox, file://: decision computed', (await txt('#decide-title')) === 'Reject H0', await txt('#decide-title'));
     for (const id of CHARTS) {
-      const ink = await page.evaluate((id) => {
-        const c = document.getElementById(id);
-        const { data } = c.getContext('2d').getImageData(0, 0, c.width, c.height);
-        let n = 0;
-        for (let i = 0; i < data.length; i += 4) if (data[i] < 235 || data[i + 1] < 235 || data[i + 2] < 235) n += 1;
-        return n / (data.length / 4);
-      }, id);
-      check(`firefox, file://: ${id} drawn`, ink > 0.02, String(ink));
+      const share = await ink(page, id);
+      check(`firefox, file://: ${id} drawn`, share > 0.02, String(share));
     }
     const before = await page.evaluate(() => Number(document.getElementById('app').dataset.updates));
     await page.$eval('#f-sigma', (e) => { e.value = '7'; e.dispatchEvent(new Event('input', { bubbles: true })); });

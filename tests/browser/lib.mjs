@@ -51,6 +51,16 @@ export function launch() {
   });
 }
 
+// The share of a canvas's pixels that are not (near) white: a chart drawn
+// has ink (playwright's and puppeteer's page.evaluate alike).
+export const ink = (page, id) => page.evaluate((id) => {
+  const c = document.getElementById(id);
+  const { data } = c.getContext('2d').getImageData(0, 0, c.width, c.height);
+  let n = 0;
+  for (let i = 0; i < data.length; i += 4) if (data[i] < 235 || data[i + 1] < 235 || data[i + 2] < 235) n += 1;
+  return n / (data.length / 4);
+}, id);
+
 export const updates = (page) => page.evaluate(() => Number(document.getElementById('app').dataset.updates || 0));
 export const text = (page, sel) => page.locator(sel).innerText();
 

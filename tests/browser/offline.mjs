@@ -24,7 +24,7 @@ import { cpSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, 
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { root, dist, artifacts, launch, text, type, check, run } from './lib.mjs';
+import { root, dist, artifacts, launch, text, type, check, ink, run } from './lib.mjs';
 import { headersFor } from '../../scripts/page-policy.mjs';
 
 const single = join(root, 'dist-single', 'tern.html');
@@ -127,13 +127,6 @@ const violations = (page) => page.evaluate(() => window.ternViolations || ['(not
 
 const ready = (page) => page.waitForSelector('#app[data-ready="true"]', { timeout: 30000 });
 const readyMs = (page) => page.evaluate(() => Number(document.getElementById('app').dataset.readyMs));
-const ink = (page, id) => page.evaluate((id) => {
-  const c = document.getElementById(id);
-  const { data } = c.getContext('2d').getImageData(0, 0, c.width, c.height);
-  let n = 0;
-  for (let i = 0; i < data.length; i += 4) if (data[i] < 235 || data[i + 1] < 235 || data[i + 2] < 235) n += 1;
-  return n / (data.length / 4);
-}, id);
 
 // The files of the build, as the host sees their paths under `base`.
 function buildPaths(base) {

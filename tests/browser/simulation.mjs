@@ -22,7 +22,7 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { root, artifacts, startServer, stopServer, launch, check, run } from './lib.mjs';
+import { root, artifacts, startServer, stopServer, launch, check, ink, run } from './lib.mjs';
 
 const tern = join(root, 'target', 'release', 'tern');
 const single = join(root, 'dist-single', 'tern.html');
@@ -117,14 +117,8 @@ async function served(browser) {
     check('the table shows both rules', /threshold of least total error/.test(tableText) && /conventional, p ≤ 0\.1/.test(tableText), tableText.slice(0, 200));
 
     // The chart is drawn.
-    const ink = await page.evaluate(() => {
-      const c = document.getElementById('chart-check');
-      const { data } = c.getContext('2d').getImageData(0, 0, c.width, c.height);
-      let n = 0;
-      for (let i = 0; i < data.length; i += 4) if (data[i] < 235 || data[i + 1] < 235 || data[i + 2] < 235) n += 1;
-      return n / (data.length / 4);
-    });
-    check('the realised error rates are drawn', ink > 0.02, String(ink));
+    const drawn = await ink(page, 'chart-check');
+    check('the realised error rates are drawn', drawn > 0.02, String(drawn));
     check('the chart has an accessible name with the rates', /threshold of least total error, α, false alarms under H0: 0\.1/.test(await page.getAttribute('#chart-check', 'aria-label')), await page.getAttribute('#chart-check', 'aria-label'));
 
     // The finished check goes into the report, as tern report draws it.

@@ -15,6 +15,7 @@ mod fill;
 mod sheets;
 mod show;
 
+use crate::page::form::capital;
 use super::{dom, listen};
 use crate::engine::design::Family;
 use crate::engine::table::{self, DataSummary, DecimalMark, ReadOptions, Table, TableBuilder};
@@ -497,13 +498,6 @@ fn show_fill_note() {
     dom::set_hidden("data-fill-use", active);
 }
 
-fn capital(s: &str) -> String {
-    let mut c = s.chars();
-    match c.next() {
-        Some(f) => f.to_uppercase().collect::<String>() + c.as_str(),
-        None => String::new(),
-    }
-}
 
 /// Bytes of WebAssembly memory now (it only grows, so after a load this is
 /// its peak); read by the data-file benchmark (tests/browser/bench-data.mjs).
