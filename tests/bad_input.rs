@@ -66,8 +66,17 @@ fn base(family: Family) -> DesignSpec {
             s.set("sigma", 0.02);
             s.set("folds", 10.0);
         }
+        Family::TwoClassifiers => {
+            s.set("acc1", 0.85);
+            s.set("acc2", 0.8);
+            s.set("discordant", 0.15);
+        }
     }
     s
+}
+
+fn cells(both_right: f64, b: f64, c: f64, both_wrong: f64) -> Summary {
+    Summary::Classifiers { both_right, only_first_right: b, only_second_right: c, both_wrong }
 }
 
 fn with(family: Family, f: impl FnOnce(&mut DesignSpec)) -> DesignSpec {
@@ -346,6 +355,41 @@ fn table() -> Vec<Case> {
                 s.set("test_train_ratio", 0.0);
             })),
             &["test_train_ratio is 0", "above 0 and at most 100"],
+        ),
+        // --- Two classifiers on the same test items (issue 12).
+        case("acc1 1", Input::Spec(with(TwoClassifiers, |s| s.set("acc1", 1.0))), &["acc1 is 1", "between 0 and 1"]),
+        case("acc2 0", Input::Spec(with(TwoClassifiers, |s| s.set("acc2", 0.0))), &["acc2 is 0", "between 0 and 1"]),
+        case("acc1 below 0", Input::Spec(with(TwoClassifiers, |s| s.set("acc1", -0.2))), &["acc1 is -0.2", "between 0 and 1"]),
+        case("discordant 0", Input::Spec(with(TwoClassifiers, |s| s.set("discordant", 0.0))), &["discordant is 0", "above 0 and at most 1"]),
+        case(
+            "discordant below the accuracy gap",
+            Input::Spec(with(TwoClassifiers, |s| s.set("discordant", 0.03))),
+            &["discordant is 0.03", "acc1 = 0.85 and acc2 = 0.8", "from 0.05", "the gap between them"],
+        ),
+        case(
+            "discordant above what both-right allows",
+            Input::Spec(with(TwoClassifiers, |s| {
+                s.set("acc1", 0.2);
+                s.set("acc2", 0.15);
+                s.set("discordant", 0.5);
+            })),
+            &["discordant is 0.5", "to 0.35", "both get right"],
+        ),
+        case(
+            "discordant above what both-wrong allows",
+            Input::Spec(with(TwoClassifiers, |s| s.set("discordant", 0.4))),
+            &["discordant is 0.4", "to 0.35", "both get wrong"],
+        ),
+        case("equal accuracies", Input::Spec(with(TwoClassifiers, |s| s.set("acc2", 0.85))), &["acc1 is 0.85", "greater than acc2"]),
+        case("theta1 for classifiers", Input::Spec(with(TwoClassifiers, |s| s.set("theta1", 0.1))), &["theta1 does not apply", "two_classifiers takes acc1, acc2 and discordant"]),
+        case("table cell negative", Input::Decide(base(TwoClassifiers), cells(10.0, -1.0, 3.0, 2.0)), &["data.only_first_right is -1", "whole number from 0"]),
+        case("table cell fractional", Input::Decide(base(TwoClassifiers), cells(10.0, 1.0, 2.5, 2.0)), &["data.only_second_right is 2.5", "whole number"]),
+        case("table all zero", Input::Decide(base(TwoClassifiers), cells(0.0, 0.0, 0.0, 0.0)), &["all 0", "no test item"]),
+        case("table NaN", Input::Decide(base(TwoClassifiers), cells(f64::NAN, 1.0, 2.0, 2.0)), &["data.both_right is NaN"]),
+        case(
+            "json table field missing",
+            Input::Json(r#"{"family": "two_classifiers", "alternative": "greater", "acc1": 0.85, "acc2": 0.8, "discordant": 0.15, "alpha_max": 0.05, "beta_max": 0.2, "data": {"both_right": 20, "only_first_right": 3, "only_second_right": 1}}"#),
+            &["data.both_wrong is missing"],
         ),
     ]
 }

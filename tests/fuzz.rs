@@ -380,6 +380,19 @@ fn effect(family: &'static str, alternative: &'static str) -> BoxedStrategy<Vec<
                 vec![("theta0", t0), ("theta1", theta1), ("sigma1", s1), ("sigma2", s2)]
             })
             .boxed(),
+        // Accuracies around 0.5–0.95, a gap, and a discordant share mostly
+        // large enough to hold it (sometimes not, sometimes a stray value).
+        "two_classifiers" => (0.05f64..0.95, 0.001f64..0.3, prop::bool::weighted(0.1), 0.5f64..3.0, value(FieldKind::Proportion), 0..8u8)
+            .prop_map(move |(a2, gap, flip, room, stray, pick)| {
+                let a1 = (a2 + sided(gap, flip)).clamp(0.001, 0.999);
+                let psi = ((a1 - a2).abs() * room).clamp(1e-6, 1.0);
+                match pick {
+                    0 => vec![("acc1", stray), ("acc2", a2.to_string()), ("discordant", psi.to_string())],
+                    1 => vec![("acc1", a1.to_string()), ("acc2", a2.to_string()), ("discordant", stray)],
+                    _ => vec![("acc1", a1.to_string()), ("acc2", a2.to_string()), ("discordant", psi.to_string())],
+                }
+            })
+            .boxed(),
         "two_learners_cv" => (effect("mean_t", alternative), prop_oneof![
                 4 => value(FieldKind::Count).prop_map(|k| vec![("folds", k)]),
                 4 => value(FieldKind::Ratio).prop_map(|r| vec![("test_train_ratio", r)]),
@@ -440,6 +453,9 @@ fn data(family: &'static str) -> BoxedStrategy<String> {
             .prop_map(move |(n1, m1, s1, n2, m2, s2)| obj(vec![("n1", n1), ("mean1", m1), ("sd1", s1), ("n2", n2), ("mean2", m2), ("sd2", s2)]))
             .boxed(),
         "proportion_exact" | "proportion_normal" => proportion().prop_map(move |(s, t)| obj(vec![("successes", s), ("trials", t)])).boxed(),
+        "two_classifiers" => (count(), count(), count(), count())
+            .prop_map(move |(a, b, c, d)| obj(vec![("both_right", a), ("only_first_right", b), ("only_second_right", c), ("both_wrong", d)]))
+            .boxed(),
         _ => (proportion(), proportion())
             .prop_map(move |((s1, t1), (s2, t2))| obj(vec![("successes1", s1), ("trials1", t1), ("successes2", s2), ("trials2", t2)]))
             .boxed(),
@@ -494,7 +510,7 @@ fn registry_request(entry: &'static Entry) -> BoxedStrategy<String> {
     let kind = |f: &Field| match (f.check, f.read) {
         (_, Input::Whole) | (Check::Whole, _) => FieldKind::Count,
         (Check::Positive, _) => FieldKind::Spread,
-        (Check::OpenUnit | Check::Dropout, _) => FieldKind::Proportion,
+        (Check::OpenUnit | Check::Dropout | Check::PositiveShare, _) => FieldKind::Proportion,
         (Check::Weight, _) => FieldKind::Weight,
         (Check::Ratio | Check::TestShare, _) => FieldKind::Ratio,
         (Check::Folds, _) => FieldKind::Count,
@@ -613,7 +629,7 @@ struct Use {
 }
 
 fn table_use() -> BoxedStrategy<Use> {
-    (0..5u8, [0..6usize, 0..6usize, 0..6usize], [any::<usize>(), any::<usize>(), any::<usize>()], prop::collection::vec(0..60usize, 0..4))
+    (0..7u8, [0..6usize, 0..6usize, 0..6usize], [any::<usize>(), any::<usize>(), any::<usize>()], prop::collection::vec(0..60usize, 0..4))
         .prop_map(|(shape, columns, levels, exclude)| Use { shape, columns, levels, exclude })
         .boxed()
 }
@@ -651,6 +667,8 @@ fn mapping(table: &Table, u: &Use) -> Mapping {
         1 => Mapping::Paired { first: a, second: b },
         2 => Mapping::TwoGroups { value: a, group: b, level1: level(b, la), level2: level(b, lb) },
         3 => Mapping::Binary { column: a, success: level(a, la) },
+        4 => Mapping::PairedBinary { first: a, second: b, truth: None },
+        5 => Mapping::PairedBinary { first: a, second: b, truth: Some(c) },
         _ => Mapping::TwoGroupsBinary { outcome: a, success: level(a, la), group: c, level1: level(c, lb), level2: level(c, lc) },
     }
 }
@@ -663,6 +681,7 @@ fn design_for(m: &Mapping) -> &'static str {
         Mapping::TwoGroups { .. } => r#""family": "two_means_welch", "alternative": "less", "theta0": 0, "theta1": -1, "sigma1": 2, "sigma2": 3"#,
         Mapping::Binary { .. } => r#""family": "proportion_exact", "alternative": "two_sided", "theta0": 0.5, "theta1": 0.7"#,
         Mapping::TwoGroupsBinary { .. } => r#""family": "two_proportions", "alternative": "greater", "p1": 0.6, "p2": 0.4"#,
+        Mapping::PairedBinary { .. } => r#""family": "two_classifiers", "alternative": "two_sided", "acc1": 0.85, "acc2": 0.8, "discordant": 0.15"#,
     }
 }
 

@@ -81,6 +81,13 @@ fn spec(p: &Params, alternative: Alternative, sign: f64, mirror: bool) -> Design
             // A small test share, so that most designs have a conclusive J.
             s.set("test_train_ratio", 0.01);
         }
+        Family::TwoClassifiers => {
+            // ψ = 1.5·|acc1 − acc2| holds the accuracies (p0 ± dp stays
+            // in (0.2, 0.8)); the mirror swaps right and wrong.
+            s.set("acc2", flip(p.p0));
+            s.set("acc1", flip(p.p0 + sign * p.dp));
+            s.set("discordant", 1.5 * p.dp);
+        }
     }
     s
 }
@@ -294,7 +301,7 @@ proptest! {
         let (cut, errors, _) = solve(&model).map_err(|e| TestCaseError::fail(format!("solve at n = {n}: {e}")))?;
         let res = match (&model.sampling, cut) {
             (Sampling::Continuous { h0, h1 }, Cut::Continuous(c)) => check_continuous_minimum(h0, h1, c, errors, d.weight),
-            (Sampling::Discrete { h0, h1 }, Cut::Discrete(c)) => check_discrete_minimum(h0, h1, c, errors, d.weight, n, model.setup.centre),
+            (Sampling::Discrete { h0, h1 }, Cut::Discrete(c)) => check_discrete_minimum(h0, h1, c, errors, d.weight, model.n1, model.setup.centre),
             (s, c) => Err(format!("cut {c:?} does not match the sampling {s:?}")),
         };
         prop_assert!(res.is_ok(), "{:?} {:?} n = {}: {}", p.family, alt, n, res.unwrap_err());
@@ -302,8 +309,11 @@ proptest! {
         // (b) The reported figures are the solver's, and consistent.
         let ev = evaluate(&d, n).map_err(|e| TestCaseError::fail(format!("evaluate at n = {n}: {e}")))?;
         prop_assert!((0.0..=1.0).contains(&ev.alpha) && (0.0..=1.0).contains(&ev.beta), "α* = {}, β* = {}", ev.alpha, ev.beta);
-        prop_assert_eq!(ev.alpha, errors.alpha);
-        prop_assert_eq!(ev.beta, errors.beta);
+        // Two classifiers: the solved model is the one at the expected
+        // number of discordant items; the design's rates average over it.
+        let solved = ev.discordant.as_ref().map_or((ev.alpha, ev.beta), |m| (m.alpha_m, m.beta_m));
+        prop_assert_eq!(solved.0, errors.alpha);
+        prop_assert_eq!(solved.1, errors.beta);
         prop_assert!((ev.youden_j - (1.0 - ev.alpha - ev.beta)).abs() <= 1e-15, "J = {} vs 1 − α* − β* = {}", ev.youden_j, 1.0 - ev.alpha - ev.beta);
         prop_assert!((ev.total_error - (ev.alpha + ev.beta)).abs() <= 1e-15);
         prop_assert!((ev.power - (1.0 - ev.beta)).abs() <= 1e-15);
@@ -413,7 +423,7 @@ proptest! {
         let (ea, eb) = (evaluate(&a, n).unwrap(), evaluate(&b, n).unwrap());
         prop_assert!(close(ea.alpha, eb.alpha, 1e-12), "α*: {} vs {}", ea.alpha, eb.alpha);
         prop_assert!(close(ea.beta, eb.beta, 1e-12), "β*: {} vs {}", ea.beta, eb.beta);
-        let mirrored = mirror_cut(ea.cut, n);
+        let mirrored = mirror_cut(ea.cut, ea.model.n1);
         prop_assert!(same_cut(mirrored, eb.cut), "thresholds are not mirror images: {:?} vs {:?}", ea.cut, eb.cut);
         prop_assert_eq!(ea.conclusive, eb.conclusive);
         let (sa, sb) = (sample_size(&a).unwrap(), sample_size(&b).unwrap());
@@ -452,6 +462,11 @@ fn summary(d: &Design, p: &Params, x: &Draw) -> Summary {
         },
         Family::ProportionExact | Family::ProportionNormal => {
             Summary::Proportion { successes: (x.u1 * x.n1 as f64).floor().min(x.n1 as f64), trials: x.n1 as f64 }
+        }
+        Family::TwoClassifiers => {
+            let n = x.n1 as f64;
+            let (b, c) = ((x.u1 * n / 4.0).floor(), (x.u2 * n / 4.0).floor());
+            Summary::Classifiers { both_right: n - b - c, only_first_right: b, only_second_right: c, both_wrong: 0.0 }
         }
         Family::TwoProportions => Summary::TwoProportions {
             successes1: (x.u1 * x.n1 as f64).floor().min(x.n1 as f64),
@@ -500,7 +515,7 @@ proptest! {
         let two = p.family.two_groups();
         let n2v = if two { Some(n2) } else { None };
         let obs = match (p.family, data) {
-            (Family::TwoMeansWelch, Summary::TwoGroups { sd1, sd2, .. }) => Observed { sd1: Some(sd1), sd2: Some(sd2), se0: None },
+            (Family::TwoMeansWelch, Summary::TwoGroups { sd1, sd2, .. }) => Observed { sd1: Some(sd1), sd2: Some(sd2), ..Observed::default() },
             // The decision's model divides by the observed pooled SE, as the
             // statistic does (DEVELOPERS.md, "Families").
             (Family::TwoProportions, Summary::TwoProportions { successes1, trials1, successes2, trials2 }) => {
@@ -508,6 +523,12 @@ proptest! {
                 Observed { se0: Some((pooled * (1.0 - pooled) * (1.0 / trials1 + 1.0 / trials2)).sqrt()), ..Observed::default() }
             }
             _ => Observed::default(),
+        };
+        // Two classifiers decide conditional on the m = b + c discordant
+        // items (DEVELOPERS.md, "Comparing models").
+        let n1 = match data {
+            Summary::Classifiers { only_first_right, only_second_right, .. } => (only_first_right + only_second_right) as u64,
+            _ => n1,
         };
         let model = d.model_observed(n1, n2v, &obs).unwrap();
         let (cut, errors, _) = solve(&model).unwrap();

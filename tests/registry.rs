@@ -25,7 +25,8 @@ fn given(e: &Entry) -> impl Iterator<Item = &'static Field> {
 fn planning(f: &Field) -> f64 {
     match (f.check, f.key) {
         (Check::Folds, _) => 10.0,
-        (Check::OpenUnit, "theta0" | "p2") => 0.5,
+        (Check::OpenUnit, "theta0" | "p2" | "acc2") => 0.5,
+        (_, "discordant") => 0.3,
         (Check::OpenUnit, _) => 0.7,
         (_, "theta0") => 0.0,
         (_, "theta1") => 0.6,
@@ -105,6 +106,7 @@ fn file_for(shape: Shape) -> &'static str {
         Shape::TwoGroups => "ward,days\nA,1.2\nA,0.8\nA,1.9\nB,0.1\nB,0.5\nB,-0.2\n",
         Shape::Binary => "patient,healed\n1,yes\n2,yes\n3,no\n4,yes\n5,yes\n6,no\n",
         Shape::TwoGroupsBinary => "ward,healed\nA,yes\nA,yes\nA,no\nA,yes\nB,no\nB,yes\nB,no\nB,no\n",
+        Shape::PairedBinary => "item,model_a,model_b\n1,correct,correct\n2,correct,wrong\n3,wrong,correct\n4,correct,correct\n5,correct,wrong\n6,wrong,wrong\n",
     }
 }
 

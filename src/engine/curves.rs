@@ -8,7 +8,7 @@
 
 use super::design::Design;
 use super::dist::{Continuous, Discrete};
-use super::evaluate::{EvaluateError, Evaluation, solve, within};
+use super::evaluate::{EvaluateError, Evaluation, Planned, within};
 use super::model::Sampling;
 use super::sample_size::N_MAX_DISCRETE;
 use super::threshold::{Alternative, ContinuousCut, DiscreteCut, continuous_errors, discrete_errors};
@@ -168,9 +168,10 @@ fn by_n(design: &Design, n_hi: u64) -> Result<Vec<ByN>, EvaluateError> {
         ns.sort_unstable();
         ns.dedup();
     }
+    let mut planned = Planned::new(design);
     ns.into_iter()
         .map(|n| {
-            let (_, e, _) = solve(&design.model(n)?)?;
+            let e = planned.at(n)?;
             Ok(ByN { n1: n, alpha: e.alpha, beta: e.beta, conclusive: within(design, &e) })
         })
         .collect()

@@ -33,6 +33,8 @@ pub enum Summary {
     TwoGroups { n1: f64, mean1: f64, sd1: f64, n2: f64, mean2: f64, sd2: f64 },
     Proportion { successes: f64, trials: f64 },
     TwoProportions { successes1: f64, trials1: f64, successes2: f64, trials2: f64 },
+    /// Two classifiers' 2 × 2 table over the same items.
+    Classifiers { both_right: f64, only_first_right: f64, only_second_right: f64, both_wrong: f64 },
 }
 
 impl Summary {
@@ -57,6 +59,12 @@ impl Summary {
             Shape::TwoGroupsBinary => {
                 Summary::TwoProportions { successes1: v("successes1"), trials1: v("trials1"), successes2: v("successes2"), trials2: v("trials2") }
             }
+            Shape::PairedBinary => Summary::Classifiers {
+                both_right: v("both_right"),
+                only_first_right: v("only_first_right"),
+                only_second_right: v("only_second_right"),
+                both_wrong: v("both_wrong"),
+            },
         })
     }
 
@@ -76,6 +84,12 @@ impl Summary {
             Summary::TwoProportions { successes1, trials1, successes2, trials2 } => {
                 vec![("successes1", successes1), ("trials1", trials1), ("successes2", successes2), ("trials2", trials2)]
             }
+            Summary::Classifiers { both_right, only_first_right, only_second_right, both_wrong } => vec![
+                ("both_right", both_right),
+                ("only_first_right", only_first_right),
+                ("only_second_right", only_second_right),
+                ("both_wrong", both_wrong),
+            ],
         }
     }
 }
@@ -176,7 +190,34 @@ fn kind(s: &Summary) -> &'static str {
         Summary::TwoGroups { .. } => "two groups (n1, mean1, sd1, n2, mean2, sd2)",
         Summary::Proportion { .. } => "successes and trials",
         Summary::TwoProportions { .. } => "successes and trials per group",
+        Summary::Classifiers { .. } => "the four cells of two classifiers' table",
     }
+}
+
+/// Two classifiers' table, checked: (both right, only 1 right = b, only 2
+/// right = c, both wrong), each a whole number from 0, n = their sum ≥ 1.
+pub(super) fn classifier_cells(both_right: f64, b: f64, c: f64, both_wrong: f64) -> Result<[u64; 4], DecisionError> {
+    let cell = |field: &'static str, v: f64| -> Result<u64, DecisionError> {
+        if v.is_finite() && v.fract() == 0.0 && (0.0..=1e7).contains(&v) {
+            Ok(v as u64)
+        } else {
+            Err(DecisionError::Value { field, value: v, rule: "a whole number from 0 to 10000000" })
+        }
+    };
+    let cells = [
+        cell("data.both_right", both_right)?,
+        cell("data.only_first_right", b)?,
+        cell("data.only_second_right", c)?,
+        cell("data.both_wrong", both_wrong)?,
+    ];
+    let n: u64 = cells.iter().sum();
+    if n == 0 {
+        return Err(DecisionError::Undefined("the four cells are all 0: there is no test item to decide from"));
+    }
+    if n > 10_000_000 {
+        return Err(DecisionError::Value { field: "data.both_wrong", value: both_wrong, rule: "such that the four cells add up to at most 10000000 items" });
+    }
+    Ok(cells)
 }
 
 /// What a decision reads off summary data: the statistic, the estimate,
@@ -236,7 +277,7 @@ pub fn observe(design: &Design, data: &Summary) -> Result<Observation, DecisionE
             } else {
                 (s1 * s1 / a + s2 * s2 / b).sqrt()
             };
-            let obs = Observed { sd1: Some(s1), sd2: Some(s2), se0: None };
+            let obs = Observed { sd1: Some(s1), sd2: Some(s2), ..Observed::default() };
             ((diff - theta0) / se, diff, n1, Some(n2), obs)
         }
         (Family::ProportionExact | Family::ProportionNormal, Summary::Proportion { successes: x, trials }) => {
@@ -260,6 +301,14 @@ pub fn observe(design: &Design, data: &Summary) -> Result<Observation, DecisionE
             let se0 = (pooled * (1.0 - pooled) * (1.0 / a + 1.0 / b)).sqrt();
             let diff = successes1 / a - successes2 / b;
             (diff / se0, diff, n1, Some(n2), Observed { se0: Some(se0), ..Observed::default() })
+        }
+        (Family::TwoClassifiers, Summary::Classifiers { both_right, only_first_right, only_second_right, both_wrong }) => {
+            // Conditional on the m = b + c discordant items (DEVELOPERS.md,
+            // "Comparing models"): X = b; the estimate is (b − c)/n.
+            let cells = classifier_cells(both_right, only_first_right, only_second_right, both_wrong)?;
+            let [_, b, c, _] = cells;
+            let n: u64 = cells.iter().sum();
+            (b as f64, (b as f64 - c as f64) / n as f64, b + c, None, Observed { items: Some(n), ..Observed::default() })
         }
         _ => return Err(wrong()),
     };
@@ -327,7 +376,7 @@ pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> R
     } else {
         Outcome::DoNotRejectH0
     };
-    let reading = reading(design, &at_n, outcome, t, estimate);
+    let reading = reading(design, data, &at_n, outcome, t, estimate);
     let mut omitted = Vec::new();
     let interval = level
         .map_or_else(|| default_level(design.alternative, design.alpha_max), Ok)
@@ -348,11 +397,16 @@ pub fn decide_at_level(design: &Design, data: &Summary, level: Option<f64>) -> R
     })
 }
 
-fn reading(design: &Design, at_n: &Evaluation, outcome: Outcome, t: f64, estimate: f64) -> String {
+fn reading(design: &Design, data: &Summary, at_n: &Evaluation, outcome: Outcome, t: f64, estimate: f64) -> String {
     let name = at_n.statistic;
-    let n = match at_n.n2 {
-        Some(n2) => format!("n1 = {}, n2 = {}", at_n.n1, n2),
-        None => format!("n = {}", at_n.n1),
+    let n = match (at_n.n2, data) {
+        (Some(n2), _) => format!("n1 = {}, n2 = {}", at_n.n1, n2),
+        (None, Summary::Classifiers { both_right, only_first_right, only_second_right, both_wrong }) => format!(
+            "m = {} items where exactly one classifier is right (of n = {})",
+            at_n.n1,
+            sig3(both_right + only_first_right + only_second_right + both_wrong)
+        ),
+        (None, _) => format!("n = {}", at_n.n1),
     };
     let observed = format!("the observed {name} = {} (estimate {})", sig3(t), sig3(estimate));
     match outcome {

@@ -50,6 +50,10 @@ pub enum Effect {
     /// θ0, θ1, the SD σ of the per-split differences, and ρ = n_test/n_train
     /// (1/(k − 1) for k-fold), the floor of the variance factor 1/J + ρ.
     CrossVal { theta0: f64, theta1: f64, sigma: f64, rho: f64 },
+    /// Two classifiers on the same items: their accuracies under the
+    /// alternative and ψ, the share of items where exactly one is right
+    /// (H0: equal accuracy). θ = acc1 − acc2 = p10 − p01.
+    Classifiers { acc1: f64, acc2: f64, psi: f64 },
 }
 
 impl Effect {
@@ -60,9 +64,24 @@ impl Effect {
             Effect::Mean { theta0, theta1, .. } | Effect::Welch { theta0, theta1, .. } | Effect::CrossVal { theta0, theta1, .. } => (theta0, theta1),
             Effect::Proportion { p0, p1 } => (p0, p1),
             Effect::TwoProportions { p1, p2 } => (0.0, p1 - p2),
+            Effect::Classifiers { acc1, acc2, .. } => (0.0, acc1 - acc2),
         }
     }
+
+    /// Two classifiers: ψ and q = p10/ψ, the chance that a discordant item
+    /// is one only classifier 1 gets right (DEVELOPERS.md, "Comparing
+    /// models"); q is clamped to [0, 1] against rounding at the boundary
+    /// designs (p01 = 0 or p10 = 0). None for the other effects.
+    pub fn discordant(&self) -> Option<(f64, f64)> {
+        let Effect::Classifiers { acc1, acc2, psi } = *self else { return None };
+        Some((psi, ((psi + acc1 - acc2) / (2.0 * psi)).clamp(0.0, 1.0)))
+    }
 }
+
+/// Planning shares of two classifiers' agreement cells within this much of
+/// 0 count as 0: accuracies and shares given to fifteen digits (0.9, 0.7,
+/// 0.2) make p01 = (0.2 − 0.9 + 0.7)/2 a rounding error away from 0.
+pub const CELL_SLACK: f64 = 1e-12;
 
 /// Everything a user states about a design, before validation: the family,
 /// the direction, and the numbers by their JSON names (the registry's
@@ -135,6 +154,17 @@ pub enum DesignError {
     /// neither, when one is needed).
     #[error("give exactly one of {first} and {second}: {hint}")]
     OneOf { first: &'static str, second: &'static str, hint: &'static str },
+    /// Two classifiers: the discordant share ψ cannot hold the accuracies
+    /// given (each of the four cells of the 2 × 2 table must be ≥ 0).
+    #[error(
+        "discordant is {value_shown}, but with acc1 = {acc1_shown} and acc2 = {acc2_shown} it must lie from {low_shown} to {high_shown}: {reason}",
+        value_shown = crate::engine::shown::Num(*value),
+        acc1_shown = crate::engine::shown::Num(*acc1),
+        acc2_shown = crate::engine::shown::Num(*acc2),
+        low_shown = crate::engine::shown::Num(*low),
+        high_shown = crate::engine::shown::Num(*high)
+    )]
+    Discordant { value: f64, acc1: f64, acc2: f64, low: f64, high: f64, reason: &'static str },
     /// Group 2 would reach the family's smallest size only beyond [`N_MAX`].
     #[error(
         "ratio is {value:e}, but {family} needs at least {least} observations in group 2 (n2 = ⌈ratio·n1⌉), which this ratio \
@@ -236,17 +266,24 @@ impl Design {
                 };
                 Effect::CrossVal { theta0: get("theta0"), theta1: get("theta1"), sigma: get("sigma"), rho }
             }
+            Family::TwoClassifiers => classifiers(get("acc1"), get("acc2"), get("discordant"))?,
         };
         let (theta0, theta1) = effect.thetas();
         let field = match (family, standardised) {
             (Family::TwoProportions, _) => "p1",
+            (Family::TwoClassifiers, _) => "acc1",
             (_, true) => "d",
             _ => "theta1",
         };
         // Echo the p1 the analyst gave: p2 + (p1 − p2) need not round back to it.
-        let shown = match effect { Effect::TwoProportions { p1, .. } => p1, _ => theta1 };
+        let shown = match effect {
+            Effect::TwoProportions { p1, .. } => p1,
+            Effect::Classifiers { acc1, .. } => acc1,
+            _ => theta1,
+        };
         let other = match family {
             Family::TwoProportions => "p2",
+            Family::TwoClassifiers => "acc2",
             _ if standardised => "0",
             _ => "theta0",
         };
@@ -331,7 +368,32 @@ impl Design {
             Effect::Proportion { p0, .. } => Effect::Proportion { p0, p1: theta1 },
             Effect::TwoProportions { p2, .. } => Effect::TwoProportions { p1: p2 + theta1, p2 },
             Effect::CrossVal { theta0, sigma, rho, .. } => Effect::CrossVal { theta0, theta1, sigma, rho },
+            // ψ and acc2 stay; the caller keeps |θ1| ≤ ψ (q in [0, 1]).
+            Effect::Classifiers { acc2, psi, .. } => Effect::Classifiers { acc1: acc2 + theta1, acc2, psi },
         };
         d
     }
+}
+
+/// Two classifiers' planning values, with the 2 × 2 table's four cells
+/// checked (DEVELOPERS.md, "Comparing models"): |acc1 − acc2| ≤ ψ ≤
+/// min(acc1 + acc2, 2 − acc1 − acc2), within [`CELL_SLACK`].
+fn classifiers(acc1: f64, acc2: f64, psi: f64) -> Result<Effect, DesignError> {
+    // Shown to twelve decimals: 0.05, not 0.04999999999999993.
+    let twelve = |x: f64| (x * 1e12).round() / 1e12;
+    let low = twelve((acc1 - acc2).abs());
+    let high = twelve((acc1 + acc2).min(2.0 - acc1 - acc2));
+    let refuse = |reason| Err(DesignError::Discordant { value: psi, acc1, acc2, low, high, reason });
+    if psi < (acc1 - acc2).abs() - CELL_SLACK {
+        return refuse(
+            "the accuracies differ only on items where exactly one classifier is right, so that share is at least the gap between them",
+        );
+    }
+    if psi > acc1 + acc2 + CELL_SLACK {
+        return refuse("the share of items both get right, (acc1 + acc2 − discordant)/2, would be below 0");
+    }
+    if psi > 2.0 - acc1 - acc2 + CELL_SLACK {
+        return refuse("the share of items both get wrong, (2 − acc1 − acc2 − discordant)/2, would be below 0");
+    }
+    Ok(Effect::Classifiers { acc1, acc2, psi })
 }

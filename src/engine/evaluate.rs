@@ -7,7 +7,10 @@
 use super::conventional::{continuous_level, discrete_level};
 use super::design::Design;
 use super::model::{Model, ModelError, Observed, Sampling};
-use super::threshold::{ContinuousCut, DiscreteCut, Errors, ThresholdError, solve_continuous, solve_discrete};
+use super::threshold::{Alternative, ContinuousCut, DiscreteCut, Errors, ThresholdError, solve_continuous, solve_discrete};
+use super::discordant::Mixture;
+use super::dist::Discrete;
+use super::sample_size::WORK_PER_SOLVE;
 use serde::Serialize;
 
 /// A rejection region as the output shows it: on the statistic's scale and
@@ -108,10 +111,28 @@ pub struct Evaluation {
     pub verdict: String,
     pub conventional: Conventional,
     pub approximation: Option<&'static str>,
+    /// Two classifiers: the rates above are averaged over the number of
+    /// discordant items; the rule shown is the one for their expected
+    /// number. None for every other family.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub discordant: Option<DiscordantAt>,
     #[serde(skip)]
     pub model: Model,
     #[serde(skip)]
     pub cut: Cut,
+}
+
+/// Two classifiers at n items: the conditional rule for the expected
+/// number of discordant items, beside the averaged rates.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct DiscordantAt {
+    /// n·ψ, the expected number of discordant items.
+    pub expected: f64,
+    /// The m whose rule is shown: n·ψ rounded, at least 1.
+    pub m: u64,
+    /// The conditional α_m and β_m of that rule.
+    pub alpha_m: f64,
+    pub beta_m: f64,
 }
 
 /// The solver's own cut, kept for the decision and the charts.
@@ -160,6 +181,10 @@ pub fn solve_with_work(model: &Model) -> Result<(Cut, Errors, Vec<DiscreteCut>, 
             let s = solve_continuous(h0, h1, model.setup)?;
             (Cut::Continuous(s.cut), s.errors, Vec::new(), 0)
         }
+        // No trials (two classifiers with no discordant item): the data
+        // hold no evidence, so H0 is never rejected (DEVELOPERS.md,
+        // "Comparing models").
+        Sampling::Discrete { h0, .. } if h0.support_max() == 0 => (Cut::Discrete(never(model.setup.alternative)), Errors { alpha: 0.0, beta: 1.0 }, Vec::new(), 0),
         Sampling::Discrete { h0, h1 } => {
             let s = solve_discrete(h0, h1, model.setup)?;
             (Cut::Discrete(s.cut), s.errors, s.ties, s.work)
@@ -167,15 +192,75 @@ pub fn solve_with_work(model: &Model) -> Result<(Cut, Errors, Vec<DiscreteCut>, 
     })
 }
 
+/// The count region that never rejects, on a support of {0}.
+fn never(alternative: Alternative) -> DiscreteCut {
+    match alternative {
+        Alternative::Greater => DiscreteCut::AtLeast(1),
+        Alternative::Less => DiscreteCut::AtMost(-1),
+        Alternative::TwoSided => DiscreteCut::Outside { centre: 0.0, half_width: 0.0, low: None, high: None },
+    }
+}
+
+/// α*, β* of a design with planning values, one n after another: two
+/// classifiers average over the number of discordant items (its
+/// thresholds kept between calls, `discordant::Mixture`); every other
+/// family solves its model at n.
+pub struct Planned {
+    design: Design,
+    mixture: Option<Mixture>,
+    /// Work so far in threshold solves (see `sample_size::WORK_PER_SOLVE`).
+    pub work: usize,
+}
+
+impl Planned {
+    pub fn new(design: &Design) -> Planned {
+        Planned { design: *design, mixture: Mixture::new(design), work: 0 }
+    }
+
+    pub fn at(&mut self, n: u64) -> Result<Errors, EvaluateError> {
+        match &mut self.mixture {
+            Some(m) => {
+                let e = m.at(n, false)?.youden;
+                self.work = m.work;
+                Ok(e)
+            }
+            None => {
+                let (_, e, _, work) = solve_with_work(&self.design.model(n)?)?;
+                self.work += 1 + usize::try_from(work / WORK_PER_SOLVE).unwrap_or(usize::MAX / 4);
+                Ok(e)
+            }
+        }
+    }
+}
+
 /// Is a design conclusive at these errors?
 pub fn within(design: &Design, e: &Errors) -> bool {
     e.alpha <= design.alpha_max && e.beta <= design.beta_max
 }
 
-/// Evaluate the design at n1 with planning values.
+/// Evaluate the design at n1 with planning values. Two classifiers: the
+/// rates averaged over the number of discordant items, the rule for their
+/// expected number (`discordant`).
 pub fn evaluate(design: &Design, n1: u64) -> Result<Evaluation, EvaluateError> {
     let model = design.model(n1)?;
-    evaluate_model(design, model)
+    let mut at = evaluate_model(design, model)?;
+    if let (Some(mut mixture), Some((psi, _))) = (Mixture::new(design), design.effect.discordant()) {
+        let avg = mixture.at(n1, true)?;
+        at.discordant = Some(DiscordantAt { expected: n1 as f64 * psi, m: at.n1, alpha_m: at.alpha, beta_m: at.beta });
+        let e = avg.youden;
+        at.n1 = n1;
+        at.n_total = n1;
+        at.alpha = e.alpha;
+        at.beta = e.beta;
+        at.power = 1.0 - e.beta;
+        at.total_error = e.alpha + e.beta;
+        at.youden_j = 1.0 - e.alpha - e.beta;
+        at.conclusive = within(design, &e);
+        at.verdict = verdict_sentence(design, &e, at.conclusive);
+        at.conventional.alpha = avg.conventional.alpha;
+        at.conventional.power = 1.0 - avg.conventional.beta;
+    }
+    Ok(at)
 }
 
 /// Evaluate at given group sizes with observed SDs (a decision).
@@ -216,6 +301,9 @@ fn evaluate_model(design: &Design, model: Model) -> Result<Evaluation, EvaluateE
             let (c, e) = continuous_level(h0, h1, design.alternative, centre, design.alpha_max)?;
             Conventional { rule: Rule::continuous(c, &model), alpha: e.alpha, power: 1.0 - e.beta }
         }
+        Sampling::Discrete { h0, .. } if h0.support_max() == 0 => {
+            Conventional { rule: Rule::discrete(never(design.alternative), &model), alpha: 0.0, power: 0.0 }
+        }
         Sampling::Discrete { h0, h1 } => {
             let (c, e) = discrete_level(h0, h1, design.alternative, centre, design.alpha_max)?;
             Conventional { rule: Rule::discrete(c, &model), alpha: e.alpha, power: 1.0 - e.beta }
@@ -242,6 +330,7 @@ fn evaluate_model(design: &Design, model: Model) -> Result<Evaluation, EvaluateE
         verdict,
         conventional,
         approximation: model.approximation,
+        discordant: None,
         model,
         cut,
     })

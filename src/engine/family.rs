@@ -36,6 +36,9 @@ pub enum Family {
     TwoProportions,
     /// Two learners over cross-validation splits: corrected resampled t.
     TwoLearnersCv,
+    /// Two classifiers on the same test items: exact conditional test on
+    /// the discordant items, planned over their number.
+    TwoClassifiers,
 }
 
 /// How a field's text is read on the page (the JSON contract takes numbers).
@@ -73,6 +76,8 @@ pub enum Check {
     Folds,
     /// Test items per training item in each split: above 0, at most 100.
     TestShare,
+    /// A share that may be 1 but not 0: above 0, at most 1.
+    PositiveShare,
 }
 
 /// The most folds taken (leave-one-out on a hundred thousand items).
@@ -102,6 +107,7 @@ impl Check {
             Check::Weight => "between 0.000001 and 0.999999 (a false alarm weighing from a millionth to a million times a miss)",
             Check::Folds => "a whole number from 2 to 100000 (10 for 10-fold cross-validation)",
             Check::TestShare => "above 0 and at most 100 (test items per training item in each split: 0.25 for an 80/20 split)",
+            Check::PositiveShare => "a share above 0 and at most 1 (0.15 or 15%)",
         }
     }
 
@@ -119,6 +125,7 @@ impl Check {
             Check::Weight => (WEIGHT_MIN..=1.0 - WEIGHT_MIN).contains(&v),
             Check::Folds => v.fract() == 0.0 && (2.0..=FOLDS_MAX).contains(&v),
             Check::TestShare => v > 0.0 && v <= 100.0,
+            Check::PositiveShare => v > 0.0 && v <= 1.0,
         }
     }
 }
@@ -158,6 +165,9 @@ pub enum Shape {
     Binary,
     /// An outcome column, its success level, and a group column with two levels.
     TwoGroupsBinary,
+    /// Two right/wrong columns on the same items (two classifiers, or one
+    /// group asked yes/no twice), or two prediction columns and the truth.
+    PairedBinary,
 }
 
 /// A role a data file's column (or one of its levels) plays.
@@ -172,11 +182,32 @@ pub enum Role {
     Level2,
     Outcome,
     Success,
+    /// Classifier 1's column: right/wrong on each item, or its predictions.
+    Classifier1,
+    Classifier2,
+    /// The true label, when the classifiers' columns hold predictions
+    /// (optional: [`NO_TRUTH`] when they say right or wrong).
+    Truth,
 }
 
+/// The [`Role::Truth`] choice that says the classifiers' columns hold right
+/// or wrong themselves.
+pub const NO_TRUTH: &str = "";
+
 impl Role {
-    pub const ALL: [Role; 8] =
-        [Role::Value, Role::First, Role::Second, Role::Group, Role::Level1, Role::Level2, Role::Outcome, Role::Success];
+    pub const ALL: [Role; 11] = [
+        Role::Value,
+        Role::First,
+        Role::Second,
+        Role::Group,
+        Role::Level1,
+        Role::Level2,
+        Role::Outcome,
+        Role::Success,
+        Role::Classifier1,
+        Role::Classifier2,
+        Role::Truth,
+    ];
 
     /// The role's name: the page's radio group (`dm-KEY`) and the command
     /// line's mapping field.
@@ -190,6 +221,9 @@ impl Role {
             Role::Level2 => "level2",
             Role::Outcome => "outcome",
             Role::Success => "success",
+            Role::Classifier1 => "classifier1",
+            Role::Classifier2 => "classifier2",
+            Role::Truth => "truth",
         }
     }
 
@@ -208,6 +242,9 @@ impl Role {
             Role::Level2 => "Group 2 is",
             Role::Outcome => "Which column holds the outcome?",
             Role::Success => "Which value counts as a success?",
+            Role::Classifier1 => "Classifier 1: which column says whether it was right (or holds its predictions)?",
+            Role::Classifier2 => "Classifier 2: which column says whether it was right (or holds its predictions)?",
+            Role::Truth => "Do those columns hold predictions? Then which column holds the true label?",
         }
     }
 
@@ -226,12 +263,13 @@ impl Shape {
             Shape::TwoGroups => &[Role::Value, Role::Group, Role::Level1, Role::Level2],
             Shape::Binary => &[Role::Outcome, Role::Success],
             Shape::TwoGroupsBinary => &[Role::Outcome, Role::Success, Role::Group, Role::Level1, Role::Level2],
+            Shape::PairedBinary => &[Role::Classifier1, Role::Classifier2, Role::Truth],
         }
     }
 
     /// Yes/no outcomes rather than measurements.
     pub fn binary(self) -> bool {
-        matches!(self, Shape::Binary | Shape::TwoGroupsBinary)
+        matches!(self, Shape::Binary | Shape::TwoGroupsBinary | Shape::PairedBinary)
     }
 }
 
@@ -296,6 +334,10 @@ pub struct Entry {
     pub parameter: &'static str,
     /// The estimate is in the user's unit (false: a proportion).
     pub in_unit: bool,
+    /// Count statistics: what X counts and how its estimate reads, for the
+    /// rule in words ("at least 7 successes (a proportion of 0.7 or
+    /// more)"). None for continuous statistics.
+    pub counted: Option<(&'static str, &'static str)>,
 }
 
 const fn field(key: &'static str, label: &'static str, needed: &'static str, read: Input, check: Check) -> Field {
@@ -468,6 +510,30 @@ const LEARNERS: [Field; 5] = [
     )),
 ];
 
+const CLASSIFIERS: [Field; 3] = [
+    field(
+        "acc1",
+        "Accuracy of classifier 1 that would matter, the share of test items it gets right (e.g. 0.85 or 85%)",
+        "the accuracy of classifier 1 under the alternative",
+        Input::Rate,
+        Check::OpenUnit,
+    ),
+    field(
+        "acc2",
+        "Accuracy of classifier 2 (the null hypothesis says both are equal)",
+        "the accuracy of classifier 2 under the alternative",
+        Input::Rate,
+        Check::OpenUnit,
+    ),
+    field(
+        "discordant",
+        "Share of test items where exactly one of the two is right (at least the gap between the accuracies)",
+        "the expected share of test items where exactly one classifier is right",
+        Input::Rate,
+        Check::PositiveShare,
+    ),
+];
+
 const TWO_PROPORTIONS: [Field; 3] = [
     field("p1", "Rate in group 1 that would matter, p1 (e.g. 0.30 or 30%)", "the rate in group 1 under the alternative (p1)", Input::Rate, Check::OpenUnit),
     field(
@@ -527,9 +593,28 @@ const DATA_TWO_PROPORTIONS: [Field; 4] = [
     data("trials2", "data.trials2", "Group 2: trials", "the trials in group 2", Input::Whole),
 ];
 
+const DATA_CLASSIFIERS: [Field; 4] = [
+    data("both_right", "data.both_right", "Test items both classifiers get right", "the number of items both classifiers get right", Input::Whole),
+    data(
+        "only_first_right",
+        "data.only_first_right",
+        "Items only classifier 1 gets right",
+        "the number of items only classifier 1 gets right",
+        Input::Whole,
+    ),
+    data(
+        "only_second_right",
+        "data.only_second_right",
+        "Items only classifier 2 gets right",
+        "the number of items only classifier 2 gets right",
+        Input::Whole,
+    ),
+    data("both_wrong", "data.both_wrong", "Items both get wrong", "the number of items both classifiers get wrong", Input::Whole),
+];
+
 /// The registry, in the order the page offers the families and messages
 /// list them.
-pub const REGISTRY: [Entry; 9] = [
+pub const REGISTRY: [Entry; 10] = [
     Entry {
         family: Family::MeanZ,
         id: "mean_z",
@@ -551,6 +636,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "μ",
         in_unit: true,
+        counted: None,
     },
     Entry {
         family: Family::MeanT,
@@ -573,6 +659,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "μ",
         in_unit: true,
+        counted: None,
     },
     Entry {
         family: Family::PairedT,
@@ -595,6 +682,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "μd",
         in_unit: true,
+        counted: None,
     },
     Entry {
         family: Family::TwoMeansPooled,
@@ -617,6 +705,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "μ1 − μ2",
         in_unit: true,
+        counted: None,
     },
     Entry {
         family: Family::TwoMeansWelch,
@@ -639,6 +728,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "μ1 − μ2",
         in_unit: true,
+        counted: None,
     },
     Entry {
         family: Family::ProportionExact,
@@ -661,6 +751,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "p",
         in_unit: false,
+        counted: Some(("successes", "a proportion of")),
     },
     Entry {
         family: Family::ProportionNormal,
@@ -683,6 +774,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "p",
         in_unit: false,
+        counted: None,
     },
     Entry {
         family: Family::TwoProportions,
@@ -705,6 +797,7 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: Some("equal rates"),
         parameter: "p1 − p2",
         in_unit: false,
+        counted: None,
     },
     Entry {
         family: Family::TwoLearnersCv,
@@ -727,6 +820,30 @@ pub const REGISTRY: [Entry; 9] = [
         null_words: None,
         parameter: "μ_d",
         in_unit: true,
+        counted: None,
+    },
+    Entry {
+        family: Family::TwoClassifiers,
+        id: "two_classifiers",
+        title: "two classifiers compared on the same test items (exact conditional test on the discordant items)",
+        test: "exact conditional test on the items where exactly one classifier is right (McNemar's exact test)",
+        approximation: None,
+        kind: Kind::Models,
+        chip: "Two classifiers, same test items",
+        chip_note: "right or wrong on each item, for both (also one group asked yes/no twice)",
+        design: &CLASSIFIERS,
+        standardised: false,
+        two_groups: false,
+        discrete: true,
+        n_min: 1,
+        data: &DATA_CLASSIFIERS,
+        shape: Shape::PairedBinary,
+        estimate: "the accuracy difference",
+        axis: "items only classifier 1 gets right, of those where exactly one is right",
+        null_words: Some("equal accuracy"),
+        parameter: "accuracy 1 − accuracy 2",
+        in_unit: false,
+        counted: Some(("items only classifier 1 gets right", "an accuracy difference of")),
     },
 ];
 

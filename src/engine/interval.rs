@@ -189,6 +189,16 @@ pub fn confidence_interval(design: &Design, data: &Summary, level: f64) -> Resul
                 "Wald interval for p̂1 − p̂2, unpooled standard error √(p̂1(1 − p̂1)/n1 + p̂2(1 − p̂2)/n2) (normal approximation), clipped to [−1, 1]";
             ((p1 - p2 - half).max(-1.0), (p1 - p2 + half).min(1.0), method.to_string())
         }
+        Figures::Discordant { b, c, n } => {
+            // The paired difference's variance estimate ((b + c) − (b − c)²/n)/n²
+            // (common practice, no source).
+            let d = (b - c) / n;
+            let se = ((b + c) - (b - c) * (b - c) / n).max(0.0).sqrt() / n;
+            let half = standard_normal()?.quantile_upper(q)? * se;
+            let method = "Wald interval for the accuracy difference (b − c)/n of paired items, standard error √((b + c) − (b − c)²/n)/n \
+                          (normal approximation), clipped to [−1, 1]";
+            ((d - half).max(-1.0), (d + half).min(1.0), method.to_string())
+        }
     };
     for (what, value) in [("interval's lower bound", low), ("interval's upper bound", high)] {
         if !value.is_finite() {
@@ -213,6 +223,7 @@ pub fn confidence_interval(design: &Design, data: &Summary, level: f64) -> Resul
 ///   square of the two SDs, not weighted by group size.
 /// - `proportion_exact`, `proportion_normal`: Cohen's h = 2·asin√p̂ − 2·asin√p0.
 /// - `two_proportions`: h = 2·asin√p̂1 − 2·asin√p̂2.
+/// - `two_classifiers`: Cohen's g = b/(b + c) − ½ (his sign-test index).
 ///
 /// d is in SD units (any real number), h in radians, in [−π, π].
 pub fn effect_size(design: &Design, data: &Summary) -> Result<EffectSize, IntervalError> {
@@ -247,6 +258,12 @@ pub fn effect_size(design: &Design, data: &Summary) -> Result<EffectSize, Interv
         Figures::TwoProportions { x1, n1, x2, n2 } => {
             ("Cohen's h", "h", arcsine(x1 / n1) - arcsine(x2 / n2), "2·asin√p̂1 − 2·asin√p̂2, the difference of arcsine-transformed proportions")
         }
+        Figures::Discordant { b, c, .. } if b + c == 0.0 => {
+            return Err(IntervalError::Undefined("Cohen's g needs at least one item where exactly one classifier is right"));
+        }
+        Figures::Discordant { b, c, .. } => {
+            ("Cohen's g", "g", b / (b + c) - 0.5, "b/(b + c) − ½, the share of discordant items classifier 1 gets right, minus one half")
+        }
     };
     if value.is_nan() {
         return Err(IntervalError::Undefined("the standardised effect size is undefined for these figures"));
@@ -266,6 +283,8 @@ enum Figures {
     TwoGroups { n1: f64, mean1: f64, sd1: f64, n2: f64, mean2: f64, sd2: f64 },
     Proportion { x: u64, n: u64 },
     TwoProportions { x1: f64, n1: f64, x2: f64, n2: f64 },
+    /// Two classifiers: b, c (only 1 right, only 2 right) of n items.
+    Discordant { b: f64, c: f64, n: f64 },
 }
 
 fn read(design: &Design, data: &Summary) -> Result<Figures, IntervalError> {
@@ -299,6 +318,10 @@ fn read(design: &Design, data: &Summary) -> Result<Figures, IntervalError> {
             let x1 = successes("data.successes1", successes1, n1)?;
             let x2 = successes("data.successes2", successes2, n2)?;
             Figures::TwoProportions { x1: x1 as f64, n1: n1 as f64, x2: x2 as f64, n2: n2 as f64 }
+        }
+        (Family::TwoClassifiers, Summary::Classifiers { both_right, only_first_right, only_second_right, both_wrong }, _) => {
+            let cells = super::decision::classifier_cells(both_right, only_first_right, only_second_right, both_wrong)?;
+            Figures::Discordant { b: cells[1] as f64, c: cells[2] as f64, n: cells.iter().sum::<u64>() as f64 }
         }
         _ => return Err(super::decision::wrong_kind(family, data).into()),
     })

@@ -8,7 +8,7 @@
 //! step before the bisection refines it.
 
 use super::design::{Design, Effect};
-use super::evaluate::{EvaluateError, Evaluation, evaluate, solve, within};
+use super::evaluate::{EvaluateError, Evaluation, Planned, evaluate, within};
 use serde::Serialize;
 
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -44,6 +44,9 @@ fn theta_at(design: &Design, u: f64) -> f64 {
             let room = if s > 0.0 { 1.0 - p2 } else { p2 };
             s * u * room * (1.0 - 1e-9)
         }
+        // The accuracy difference p10 − p01 reaches ±ψ (every discordant
+        // item won by one classifier).
+        Effect::Classifiers { psi, .. } => s * u * psi,
     }
 }
 
@@ -58,7 +61,7 @@ fn standardised(design: &Design, theta1: f64) -> Option<f64> {
 pub fn smallest_effect(design: &Design, n1: u64) -> Result<SmallestEffect, EvaluateError> {
     let ok = |u: f64| -> Result<bool, EvaluateError> {
         let d = design.with_theta1(theta_at(design, u));
-        Ok(within(&d, &solve(&d.model(n1)?)?.1))
+        Ok(within(&d, &Planned::new(&d).at(n1)?))
     };
     let discrete = design.family.discrete();
     let method = if discrete {

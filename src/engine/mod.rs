@@ -14,6 +14,7 @@ pub mod conventional;
 pub mod evaluate;
 pub mod model;
 pub mod sample_size;
+pub mod discordant;
 pub mod decision;
 pub mod interval;
 pub mod curves;

@@ -22,6 +22,9 @@ pub enum ContDist {
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum DiscDist {
     Binomial(Binomial),
+    /// Bin(0, p): no trials, all mass at 0 (two classifiers with no
+    /// discordant item).
+    NoTrials,
 }
 
 macro_rules! delegate {
@@ -71,41 +74,49 @@ impl Discrete for DiscDist {
     fn pmf(&self, k: u64) -> f64 {
         match self {
             DiscDist::Binomial(d) => d.pmf(k),
+            DiscDist::NoTrials => f64::from(u8::from(k == 0)),
         }
     }
     fn ln_pmf(&self, k: u64) -> f64 {
         match self {
             DiscDist::Binomial(d) => d.ln_pmf(k),
+            DiscDist::NoTrials => if k == 0 { 0.0 } else { f64::NEG_INFINITY },
         }
     }
     fn cdf(&self, k: u64) -> f64 {
         match self {
             DiscDist::Binomial(d) => d.cdf(k),
+            DiscDist::NoTrials => 1.0,
         }
     }
     fn sf(&self, k: u64) -> f64 {
         match self {
             DiscDist::Binomial(d) => d.sf(k),
+            DiscDist::NoTrials => 0.0,
         }
     }
     fn quantile(&self, p: f64) -> Result<u64, DistError> {
         match self {
             DiscDist::Binomial(d) => d.quantile(p),
+            DiscDist::NoTrials => Ok(0),
         }
     }
     fn quantile_upper(&self, q: f64) -> Result<u64, DistError> {
         match self {
             DiscDist::Binomial(d) => d.quantile_upper(q),
+            DiscDist::NoTrials => Ok(0),
         }
     }
     fn support_max(&self) -> u64 {
         match self {
             DiscDist::Binomial(d) => d.support_max(),
+            DiscDist::NoTrials => 0,
         }
     }
     fn centre(&self) -> f64 {
         match self {
             DiscDist::Binomial(d) => d.centre(),
+            DiscDist::NoTrials => 0.0,
         }
     }
 }
@@ -128,6 +139,9 @@ pub struct Observed {
     /// Standard error of the estimate under H0 (two proportions: from the
     /// observed pooled rate).
     pub se0: Option<f64>,
+    /// Two classifiers: the n test items, which map the count X of the m
+    /// discordant items to the accuracy difference (2X − m)/n = (b − c)/n.
+    pub items: Option<u64>,
 }
 
 /// Everything the solvers need about a design at one sample size.
@@ -167,6 +181,12 @@ pub enum ModelError {
     Scale { field: &'static str, value: f64, others: String, detail: String },
 }
 
+/// The expected number of discordant items among n, rounded to the
+/// nearest whole number and at least 1: m = ⌊n·ψ + ½⌋ ∨ 1.
+pub fn expected_discordant(n: u64, psi: f64) -> u64 {
+    ((n as f64 * psi + 0.5).floor() as u64).clamp(1, n.max(1))
+}
+
 /// Welch–Satterthwaite degrees of freedom for variances of the means v1, v2.
 pub fn welch_df(v1: f64, v2: f64, n1: u64, n2: u64) -> f64 {
     (v1 + v2).powi(2) / (v1 * v1 / (n1 - 1) as f64 + v2 * v2 / (n2 - 1) as f64)
@@ -174,7 +194,17 @@ pub fn welch_df(v1: f64, v2: f64, n1: u64, n2: u64) -> f64 {
 
 impl Design {
     /// The model at n1 (n2 from the allocation ratio) with planning values.
+    /// Two classifiers: the conditional model at the expected number of
+    /// discordant items among n1 ([`expected_discordant`]), the one the
+    /// charts draw; their planning errors average over that number
+    /// (`discordant`).
     pub fn model(&self, n1: u64) -> Result<Model, ModelError> {
+        if let Some((psi, _)) = self.effect.discordant() {
+            if !(1..=N_MAX).contains(&n1) {
+                return Err(ModelError::SampleSize { field: "n", value: n1 as f64, min: 1, max: N_MAX });
+            }
+            return self.model_observed(expected_discordant(n1, psi), None, &Observed { items: Some(n1), ..Observed::default() });
+        }
         let n2 = self.n2(n1);
         self.model_observed(n1, n2, &Observed::default())
     }
@@ -186,7 +216,7 @@ impl Design {
     /// sizes alone (their observed SD only maps T to the estimate).
     pub fn sampling_observed(&self, obs: &Observed) -> Observed {
         match self.family {
-            Family::TwoMeansWelch => Observed { sd1: obs.sd1, sd2: obs.sd2, se0: None },
+            Family::TwoMeansWelch => Observed { sd1: obs.sd1, sd2: obs.sd2, ..Observed::default() },
             Family::TwoProportions => Observed { se0: obs.se0, ..Observed::default() },
             _ => Observed::default(),
         }
@@ -233,6 +263,7 @@ impl Design {
             Effect::Proportion { p0, p1 } => vec![("theta0", p0), ("theta1", p1)],
             Effect::TwoProportions { p1, p2 } => vec![("p1", p1), ("p2", p2)],
             Effect::CrossVal { theta0, theta1, sigma, rho } => vec![("theta0", theta0), ("theta1", theta1), ("sigma", sigma), ("test_train_ratio", rho)],
+            Effect::Classifiers { acc1, acc2, psi } => vec![("acc1", acc1), ("acc2", acc2), ("discordant", psi)],
         };
         let extremity = |v: f64| if v == 0.0 || !v.is_finite() { 0.0 } else { v.abs().ln().abs() };
         let (field, value) = values.iter().copied().fold(values[0], |a, b| if extremity(b.1) > extremity(a.1) { b } else { a });
@@ -241,8 +272,12 @@ impl Design {
     }
 
     fn model_unscaled(&self, n1: u64, n2: Option<u64>, obs: &Observed) -> Result<Model, ModelError> {
-        let min = self.family.n_min();
-        let field = if self.family.two_groups() { "n1" } else { "n" };
+        // Two classifiers' statistic is conditional on the m discordant
+        // items, which may be none.
+        let (min, field) = match self.family {
+            Family::TwoClassifiers => (0, "the number of discordant items m"),
+            _ => (self.family.n_min(), if self.family.two_groups() { "n1" } else { "n" }),
+        };
         if n1 < min || n1 > N_MAX {
             return Err(ModelError::SampleSize { field, value: n1 as f64, min, max: N_MAX });
         }
@@ -257,6 +292,19 @@ impl Design {
         let delta = theta1 - theta0;
         let alt = self.alternative;
         let setup = |single_crossing| Setup { alternative: alt, centre: 0.0, weight: self.weight, single_crossing };
+        // An exact count X of n1 trials: estimate = offset + slope · X.
+        let exact = |h0, h1, centre, offset, slope| Model {
+            sampling: Sampling::Discrete { h0, h1 },
+            setup: Setup { centre, ..setup(true) },
+            offset,
+            slope,
+            statistic: "X",
+            n1,
+            n2: None,
+            df: None,
+            ncp: None,
+            approximation: None,
+        };
         let n = n1 as f64;
         let (m1, m2) = (n, n2v as f64);
         let model = match (self.family, self.effect) {
@@ -335,18 +383,9 @@ impl Design {
                     approximation: Some("Welch–Satterthwaite degrees of freedom"),
                 }
             }
-            (Family::ProportionExact, Effect::Proportion { p0, p1 }) => Model {
-                sampling: Sampling::Discrete { h0: DiscDist::Binomial(Binomial::new(n1, p0)?), h1: DiscDist::Binomial(Binomial::new(n1, p1)?) },
-                setup: Setup { centre: n * p0, ..setup(true) },
-                offset: 0.0,
-                slope: 1.0 / n,
-                statistic: "X",
-                n1,
-                n2: None,
-                df: None,
-                ncp: None,
-                approximation: None,
-            },
+            (Family::ProportionExact, Effect::Proportion { p0, p1 }) => {
+                exact(DiscDist::Binomial(Binomial::new(n1, p0)?), DiscDist::Binomial(Binomial::new(n1, p1)?), n * p0, 0.0, 1.0 / n)
+            }
             (Family::ProportionNormal, Effect::Proportion { p0, p1 }) => {
                 let se0 = (p0 * (1.0 - p0) / n).sqrt();
                 let se1 = (p1 * (1.0 - p1) / n).sqrt();
@@ -409,6 +448,21 @@ impl Design {
                     ncp: Some(ncp),
                     approximation: self.family.entry().approximation,
                 }
+            }
+            (Family::TwoClassifiers, Effect::Classifiers { .. }) => {
+                // X | m ~ Bin(m, ½) under H0, Bin(m, q) under the
+                // alternative (the exact conditional test); m = 0 holds no
+                // trial at all.
+                let q = self.effect.discordant().map_or(f64::NAN, |(_, q)| q);
+                let (h0, h1) = if n1 == 0 {
+                    (DiscDist::NoTrials, DiscDist::NoTrials)
+                } else {
+                    (DiscDist::Binomial(Binomial::new(n1, 0.5)?), DiscDist::Binomial(Binomial::new(n1, q)?))
+                };
+                // estimate = (2X − m)/items, the accuracy difference (items
+                // = m when unknown: the difference among discordant items).
+                let items = obs.items.unwrap_or(n1).max(1) as f64;
+                exact(h0, h1, n / 2.0, -n / items, 2.0 / items)
             }
             // Design::new pairs every family with its own effect kind.
             (family, _) => {

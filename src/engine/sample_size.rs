@@ -11,7 +11,7 @@
 
 use super::design::{Design, Effect, N_MAX};
 use super::dist::{Continuous, Discrete, Normal};
-use super::evaluate::{EvaluateError, Evaluation, evaluate, sig3, solve_with_work, within};
+use super::evaluate::{EvaluateError, Evaluation, Planned, evaluate, sig3, within};
 use super::conventional::{continuous_level, discrete_level_near};
 use super::threshold::DiscreteCut;
 use std::cell::Cell;
@@ -122,11 +122,11 @@ fn sizes(design: &Design, n1: u64) -> GroupSizes {
 
 /// α*, β* at n1 (planning values), counting solves.
 pub fn errors_at(design: &Design, n1: u64, solves: &mut usize) -> Result<Errors, EvaluateError> {
-    let model = design.model(n1)?;
-    let (_, errors, _, work) = solve_with_work(&model)?;
     // A solve that walked more than WORK_PER_SOLVE counts is charged as
     // several, so the budget bounds the time and not only the number.
-    *solves += 1 + usize::try_from(work / WORK_PER_SOLVE).unwrap_or(usize::MAX / 2);
+    let mut planned = Planned::new(design);
+    let errors = planned.at(n1)?;
+    *solves += planned.work;
     Ok(errors)
 }
 
@@ -155,7 +155,7 @@ fn conventional_power_near(design: &Design, n1: u64, near: &Cell<Option<f64>>) -
 
 /// Smallest n in [lo, max] where `ok` holds, for a predicate that is false
 /// then true: doubling then bisection. `None` when false at `max`.
-fn smallest_monotone<F>(lo: u64, max: u64, mut ok: F) -> Result<Option<u64>, EvaluateError>
+pub(super) fn smallest_monotone<F>(lo: u64, max: u64, mut ok: F) -> Result<Option<u64>, EvaluateError>
 where
     F: FnMut(u64) -> Result<bool, EvaluateError>,
 {
@@ -430,6 +430,9 @@ pub fn sample_size(design: &Design) -> Result<SampleSize, EvaluateError> {
 /// when the search would do more than that (the caller runs it again
 /// elsewhere, without); `progress` hears where it stands, at every n.
 pub fn search(design: &Design, quick: Option<usize>, progress: &mut dyn FnMut(Progress)) -> Result<Option<Found>, EvaluateError> {
+    if design.effect.discordant().is_some() {
+        return super::discordant::search(design, quick, progress);
+    }
     let mut solves = 0usize;
     let lo = design.n_min();
     let discrete = design.family.discrete();

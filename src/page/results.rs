@@ -57,6 +57,7 @@ pub fn sizes(n1: u64, n2: Option<u64>) -> String {
 pub fn rule_text(rule: &Rule, stat: &str, family: Family, unit: &str) -> String {
     let u = unit_of(family, unit);
     let est = family.entry().estimate;
+    let (counted, as_estimate) = family.entry().counted.unwrap_or(("successes", "a proportion of"));
     match *rule {
         Rule::Above { statistic, estimate } => {
             format!("reject H0 when {est} is above {}{u} ({stat} > {})", short(estimate), short(statistic))
@@ -71,13 +72,13 @@ pub fn rule_text(rule: &Rule, stat: &str, family: Family, unit: &str) -> String 
             short(statistic_low),
             short(statistic_high)
         ),
-        Rule::AtLeast { k, estimate } => format!("reject H0 with at least {k} successes (a proportion of {} or more)", short(estimate)),
-        Rule::AtMost { k, estimate } => format!("reject H0 with at most {k} successes (a proportion of {} or less)", short(estimate)),
+        Rule::AtLeast { k, estimate } => format!("reject H0 with at least {k} {counted} ({as_estimate} {} or more)", short(estimate)),
+        Rule::AtMost { k, estimate } => format!("reject H0 with at most {k} {counted} ({as_estimate} {} or less)", short(estimate)),
         Rule::OutsideCounts { k_low, k_high, .. } => {
             let lo = k_low.map(|k| format!("at most {k}"));
             let hi = k_high.map(|k| format!("at least {k}"));
             let parts: Vec<String> = lo.into_iter().chain(hi).collect();
-            format!("reject H0 with {} successes", parts.join(" or "))
+            format!("reject H0 with {} {counted}", parts.join(" or "))
         }
         Rule::Never => "no threshold helps: the best rule never rejects H0".into(),
         Rule::Always => "no threshold helps: the best rule always rejects H0".into(),
@@ -134,7 +135,7 @@ pub fn size_card(ans: &Answer, unit: &str) -> SizeCard {
                 prob(at.beta),
                 prob(ans.design.beta_max),
                 rule_text(&at.rule, at.statistic, fam, unit)
-            ),
+            ) + &discordant_text(at),
         ),
         _ => (
             "none",
@@ -252,6 +253,20 @@ fn conventional_text(at: &Evaluation) -> String {
         Rule::Never => "never rejects".into(),
         Rule::Always => "always rejects".into(),
     }
+}
+
+/// Two classifiers: which m the rule shown is for, and that the rates are
+/// averaged over m (empty for every other family).
+pub fn discordant_text(at: &Evaluation) -> String {
+    at.discordant.as_ref().map_or(String::new(), |d| {
+        format!(
+            " The rule is the one for m = {} items where exactly one classifier is right, the number expected among n = {} (n·ψ = {}); \
+             the rates α* and β* average the exact conditional test over every m, and a decision recomputes the threshold for the m observed.",
+            d.m,
+            at.n1,
+            short(d.expected)
+        )
+    })
 }
 
 fn at_n_text(at: &Evaluation) -> String {

@@ -438,6 +438,16 @@ fn summary_rows(s: &Summary) -> Table {
                 ],
             };
         }
+        Summary::Classifiers { both_right, only_first_right, only_second_right, both_wrong } => {
+            return Table {
+                caption: "The two classifiers on the same test items".into(),
+                head: ["", "classifier 2 right", "classifier 2 wrong"].map(String::from).to_vec(),
+                rows: vec![
+                    vec!["classifier 1 right".into(), f(both_right), f(only_first_right)],
+                    vec!["classifier 1 wrong".into(), f(only_second_right), f(both_wrong)],
+                ],
+            };
+        }
     };
     Table { caption: "Summary of the data".into(), head, rows }
 }

@@ -533,6 +533,10 @@ def exact_table(des, n):
         b = np.where(c_lo < 0.5, c_hi - c_lo, s_lo - s_hi)
         b = np.where(klo >= khi - 1, 0.0, b)
         b = np.maximum(b, 0.0)
+        # A region whose two sides meet rejects every count: both tails
+        # would count some counts twice, so alpha and the power are 1.
+        a = np.where(klo >= khi - 1, 1.0, a)
+        rej1 = np.where(klo >= khi - 1, 1.0, rej1)
         pw = rej1
         regions = [[int(l) if lo else None, int(h) if hi else None]
                    for l, h, lo, hi in zip(klo, khi, lo_ok, hi_ok)]

@@ -131,6 +131,11 @@ impl Plan {
         let kind = if design.family.entry().shape.binary() { Kind::Outcomes } else { Kind::Measurements };
         let groups = if design.family.two_groups() { 2 } else { 1 };
         let population = Population::new(&spec.shape, kind, groups)?;
+        if design.family == Family::TwoClassifiers && population != Population::Bernoulli {
+            return Err(SimulationError::Shape(
+                "two classifiers' test items are drawn independently (each item's 2 × 2 cell from the planning shares): choose independent yes/no outcomes".into(),
+            ));
+        }
         let n2 = design.n2(n1);
         let planned = GroupSizes { n1, n2, n_total: n1 + n2.unwrap_or(0) };
         let enrol = dropout.filter(|q| *q > 0.0).map(|q| enrolment(planned, q));
@@ -202,6 +207,13 @@ impl Plan {
                     [p1, p2]
                 };
                 Truth { mean: [0.0; 2], sd: [0.0; 2], rate }
+            }
+            // rate = [ψ, q]: the share of discordant items and the chance
+            // that one of them is won by classifier 1 (½ under H0, equal
+            // accuracy with the same ψ).
+            Effect::Classifiers { .. } => {
+                let (psi, q) = self.design.effect.discordant().unwrap_or((0.0, 0.5));
+                Truth { mean: [0.0; 2], sd: [0.0; 2], rate: [psi, if h == Hypothesis::Null { 0.5 } else { q }] }
             }
         }
     }
@@ -353,6 +365,15 @@ impl<'a> Runner<'a> {
         }
         let outcomes = matches!(self.plan.population, Population::Bernoulli | Population::Clustered { .. });
         let summary = match (design.family.two_groups(), outcomes) {
+            _ if design.family == Family::TwoClassifiers => {
+                // m ~ Bin(n, ψ) discordant items, b ~ Bin(m, q) of them won
+                // by classifier 1; the agreeing items' split does not enter
+                // the decision and is left at "both right".
+                let draw = |rng: &mut Xoshiro256PlusPlus, n: u64, p: f64| Binomial::new(n, p).map_or(0, |b| b.sample(rng));
+                let m = draw(rng, n1, truth.rate[0]);
+                let b = draw(rng, m, truth.rate[1]);
+                Summary::Classifiers { both_right: (n1 - m) as f64, only_first_right: b as f64, only_second_right: (m - b) as f64, both_wrong: 0.0 }
+            }
             (false, false) => {
                 let (n, mean, sd) = self.moments(rng, n1, truth.mean[0], truth.sd[0], 0);
                 Summary::OneGroup { n, mean, sd }

@@ -25,6 +25,32 @@ pub enum Mapping {
     Binary { column: usize, success: String },
     /// Two proportions: `two_proportions`.
     TwoGroupsBinary { outcome: usize, success: String, group: usize, level1: String, level2: String },
+    /// Two classifiers on the same items (`two_classifiers`), row by row:
+    /// each column says right or wrong ([`right_wrong`]), or, with `truth`,
+    /// holds a prediction that is right when it equals the truth.
+    PairedBinary { first: usize, second: usize, truth: Option<usize> },
+}
+
+/// Does a cell's text say right (true) or wrong (false)? Case and the
+/// surrounding spaces aside: 1, true, yes, y, t, correct, right, pass and
+/// 0, false, no, n, f, wrong, incorrect, fail (a number equal to 1 or 0
+/// too). None for anything else.
+pub fn right_wrong(text: &str) -> Option<bool> {
+    let t = text.trim().to_lowercase();
+    match t.as_str() {
+        "1" | "true" | "yes" | "y" | "t" | "correct" | "right" | "pass" => Some(true),
+        "0" | "false" | "no" | "n" | "f" | "wrong" | "incorrect" | "fail" => Some(false),
+        _ => match t.parse::<f64>() {
+            Ok(1.0) => Some(true),
+            Ok(0.0) => Some(false),
+            _ => None,
+        },
+    }
+}
+
+/// Does every value of a column read as right or wrong?
+pub fn right_wrong_column(c: &super::ColumnInfo) -> bool {
+    !c.levels.is_empty() && c.levels.iter().all(|l| right_wrong(&l.value).is_some())
 }
 
 /// What a mapping gives: per-group figures, what was left out, the summary
@@ -54,6 +80,12 @@ pub enum MappingError {
     TooManyLevels { column: String, max: usize },
     #[error("{0}")]
     Same(String),
+    #[error(
+        "column \"{column}\" holds \"{value}\" (row {row}), which reads as neither right (1, true, yes, correct, right) nor wrong \
+         (0, false, no, wrong, incorrect): choose two columns that say whether each classifier was right, or, if they hold \
+         predictions, the column with the true label"
+    )]
+    NotRightWrong { column: String, value: String, row: usize },
     #[error("{group} has {n} usable value(s), but {needs}")]
     TooFew { group: String, n: usize, needs: String },
 }
@@ -106,8 +138,26 @@ pub fn summarise(table: &Table, mapping: &Mapping, exclude_rows: &[usize]) -> Re
                 trials2: b.n as f64,
             }
         }
+        // The two groups hold the same items in the same order (1 right).
+        Mapping::PairedBinary { .. } => {
+            let mut cells = [0usize; 4];
+            for (x, y) in sel.groups[0].values.iter().zip(&sel.groups[1].values) {
+                cells[match (*x == 1.0, *y == 1.0) {
+                    (true, true) => 0,
+                    (true, false) => 1,
+                    (false, true) => 2,
+                    (false, false) => 3,
+                }] += 1;
+            }
+            Summary::Classifiers {
+                both_right: cells[0] as f64,
+                only_first_right: cells[1] as f64,
+                only_second_right: cells[2] as f64,
+                both_wrong: cells[3] as f64,
+            }
+        }
     };
-    let binary = matches!(mapping, Mapping::Binary { .. } | Mapping::TwoGroupsBinary { .. });
+    let binary = matches!(mapping, Mapping::Binary { .. } | Mapping::TwoGroupsBinary { .. } | Mapping::PairedBinary { .. });
     let views: Vec<Group<'_>> = groups
         .iter()
         .zip(&quartiles)
@@ -271,6 +321,32 @@ fn select(table: &Table, mapping: &Mapping, exclude_rows: &[usize]) -> Result<Se
             sel.other_rows = (0..n).filter(|&i| keep[i] && kg[i] != k1 && kg[i] != k2).count();
             sel.groups.extend(gs);
         }
+        Mapping::PairedBinary { first, second, truth } => {
+            if first == second || truth.is_some_and(|t| t == *first || t == *second) {
+                return Err(MappingError::Same("the two classifiers' columns (and the true label's) must be different columns".into()));
+            }
+            let (ca, cb) = (column(table, *first)?, column(table, *second)?);
+            let ct = truth.map(|t| column(table, t)).transpose()?;
+            let (ra, rb) = (rights(table, ca, ct)?, rights(table, cb, ct)?);
+            let word = if ct.is_some() { "right (prediction = truth)" } else { "right" };
+            let mut gs = [empty(format!("{}: {word}", ca.name)), empty(format!("{}: {word}", cb.name))];
+            for i in (0..n).filter(|&i| keep[i]) {
+                match (ra[i], rb[i]) {
+                    (Some(x), Some(y)) => {
+                        for (g, hit) in gs.iter_mut().zip([x, y]) {
+                            g.values.push(if hit { 1.0 } else { 0.0 });
+                            g.rows.push(i as u32);
+                        }
+                    }
+                    (None, None) => gs.iter_mut().for_each(|g| g.missing += 1),
+                    _ => sel.dropped_pairs += 1,
+                }
+            }
+            for g in &mut gs {
+                g.successes = Some(g.values.iter().filter(|v| **v == 1.0).count());
+            }
+            sel.groups.extend(gs);
+        }
     }
     for g in &sel.groups {
         let needs = match mapping {
@@ -290,6 +366,41 @@ fn select(table: &Table, mapping: &Mapping, exclude_rows: &[usize]) -> Result<Se
         }
     }
     Ok(sel)
+}
+
+/// Each row's right (true) or wrong (false) for one classifier's column;
+/// None where the cell (or the truth) is missing. Without `truth` the
+/// cells must say right or wrong; with it, a prediction is right when its
+/// text equals the truth's (spaces around ignored), or its number does.
+fn rights(table: &Table, col: &Column, truth: Option<&Column>) -> Result<Vec<Option<bool>>, MappingError> {
+    let n = table.n_rows;
+    let text = |c: &Column, i: usize| -> Option<String> {
+        match c.codes.as_deref() {
+            Some(k) if k[i] == MISSING => None,
+            Some(k) => c.levels.get(k[i] as usize).map(|l| l.value.trim().to_string()),
+            None if c.values[i].is_finite() => Some(c.values[i].to_string()),
+            None => None,
+        }
+    };
+    let mut out = Vec::with_capacity(n);
+    for i in 0..n {
+        let Some(mine) = text(col, i) else {
+            out.push(None);
+            continue;
+        };
+        out.push(match truth {
+            None => Some(right_wrong(&mine).ok_or_else(|| MappingError::NotRightWrong {
+                column: col.name.clone(),
+                value: mine.clone(),
+                row: table.file_row(i).unwrap_or(i + 1),
+            })?),
+            Some(t) => text(t, i).map(|truth| {
+                let number = |s: &str| s.parse::<f64>().ok();
+                truth == mine || matches!((number(&truth), number(&mine)), (Some(a), Some(b)) if a == b)
+            }),
+        });
+    }
+    Ok(out)
 }
 
 fn two_levels(col: &Column, level1: &str, level2: &str) -> Result<(u32, u32), MappingError> {

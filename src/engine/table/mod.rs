@@ -37,7 +37,7 @@ mod workbook;
 pub use cells::{parse_number, CellValue};
 pub use charts_data::{histogram, normal_quantile_points, Histogram, QQ_MAX_POINTS};
 pub use delimited::TableBuilder;
-pub use mapping::{group_values, summarise, DataSummary, Mapping, MappingError};
+pub use mapping::{group_values, right_wrong, right_wrong_column, summarise, DataSummary, Mapping, MappingError};
 pub use summary::{GroupStats, Moments};
 pub use tern_sheets::{Cell as SheetCell, Grid as SheetGrid, SheetError};
 pub use workbook::{read_grid, sheet_error};

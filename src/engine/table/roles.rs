@@ -9,7 +9,7 @@
 //! file again (another delimiter, decimal mark, missing-value list) keeps
 //! them when the columns are still there.
 
-use crate::engine::family::{Role, Shape};
+use crate::engine::family::{NO_TRUTH, Role, Shape};
 use super::{self as table, ColumnKind, Mapping, Table};
 
 /// What the user picked (column names, level texts), role by role.
@@ -55,6 +55,9 @@ pub fn candidates(t: &Table, r: Role, choice: &Choice) -> Vec<String> {
             .collect(),
         Role::Level1 | Role::Level2 => levels(t, choice.get(Role::Group)),
         Role::Success => levels(t, choice.get(Role::Outcome)),
+        // Right/wrong, labels or predictions: any column with values.
+        Role::Classifier1 | Role::Classifier2 => t.columns.iter().filter(|c| c.count > 0).map(|c| c.name.clone()).collect(),
+        Role::Truth => std::iter::once(NO_TRUTH.to_string()).chain(t.columns.iter().filter(|c| c.count > 0).map(|c| c.name.clone())).collect(),
     }
 }
 
@@ -109,6 +112,16 @@ pub fn complete(t: &Table, s: Shape, old: &Choice, unit: &str) -> Choice {
             Role::Level1 => free.first().map(|x| x.to_string()),
             Role::Level2 => free.first().map(|x| x.to_string()),
             Role::Success => free.iter().find(|x| success_like(x)).or(free.first()).map(|x| x.to_string()),
+            // Two columns that read as right/wrong, or else the first two.
+            Role::Classifier1 | Role::Classifier2 => {
+                let codes = |x: &&&String| column_index(t, x).is_some_and(|i| table::right_wrong_column(&t.columns[i]));
+                free.iter().find(codes).or(free.first()).map(|x| x.to_string())
+            }
+            // A column named like the true label, else none.
+            Role::Truth => {
+                let named = |x: &&&String| matches!(x.trim().to_lowercase().as_str(), "truth" | "label" | "target" | "actual" | "gold" | "y_true" | "true label" | "true_label" | "ground truth");
+                Some(free.iter().find(named).map_or(NO_TRUTH.to_string(), |x| x.to_string()))
+            }
         };
         if let Some(p) = pick {
             c.set(r, p);
@@ -138,6 +151,14 @@ pub fn to_mapping(t: &Table, s: Shape, c: &Choice) -> Result<Mapping, &'static s
             level1: text(Role::Level1)?,
             level2: text(Role::Level2)?,
         },
+        Shape::PairedBinary => Mapping::PairedBinary {
+            first: col(Role::Classifier1)?,
+            second: col(Role::Classifier2)?,
+            truth: match c.get(Role::Truth) {
+                None | Some(NO_TRUTH) => None,
+                Some(name) => Some(column_index(t, name).ok_or(Role::Truth.question())?),
+            },
+        },
     })
 }
 
@@ -165,5 +186,9 @@ pub fn describe(s: Shape, c: &Choice) -> String {
             g(Role::Group),
             g(Role::Level2)
         ),
+        Shape::PairedBinary => match c.get(Role::Truth) {
+            Some(truth) if truth != NO_TRUTH => format!("predictions {} and {} against the truth {truth}", g(Role::Classifier1), g(Role::Classifier2)),
+            _ => format!("right or wrong: classifier 1 {}, classifier 2 {}", g(Role::Classifier1), g(Role::Classifier2)),
+        },
     }
 }

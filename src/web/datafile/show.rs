@@ -10,7 +10,7 @@
 use crate::page::charts::prep::DataViews;
 use crate::page::charts::{histogram, quantile, short};
 use super::super::{canvas, dom};
-use crate::engine::family::{Role, Shape};
+use crate::engine::family::{NO_TRUTH, Role, Shape};
 use crate::engine::table::roles::{self as mapping, Choice};
 use crate::engine::table::{self, ColumnKind, DataSummary, DecimalMark, Format, ReadOptions, Table};
 use web_sys::Element;
@@ -253,6 +253,7 @@ pub fn mapping(t: &Table, s: Shape, c: &Choice) {
                 Role::Level1 => "Group 1: choose the column that says the group first.".to_string(),
                 Role::Level2 => "Group 2: choose the column that says the group first.".to_string(),
                 Role::Success => "Success: choose the column that holds the outcome first.".to_string(),
+                Role::Classifier1 | Role::Classifier2 | Role::Truth => format!("{} The table has no column with values.", r.question()),
             };
             if let Some(p) = dom::add(&div, "p", &text) {
                 let _ = p.set_attribute("class", "msg general");
@@ -266,6 +267,9 @@ pub fn mapping(t: &Table, s: Shape, c: &Choice) {
                     Role::Level1 | Role::Level2 | Role::Success => level_count(t, c, r, v),
                     _ => t.columns.iter().find(|x| x.name == *v).map_or(String::new(), |x| format!("{} values", x.count)),
                 };
+                if r == Role::Truth && v == NO_TRUTH {
+                    return opt(v, "No: they say right or wrong", "");
+                }
                 opt(v, v, &note)
             })
             .collect();
